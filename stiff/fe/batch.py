@@ -1,0 +1,73 @@
+"""Stacks of models with one topology: build one from many, take one out of a stack."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from dataclasses import replace
+
+import numpy as np
+
+from stiff.errors import ModelError
+from stiff.fe.model import Beams, FloatArray, FrameModel, Springs
+
+
+def _pick(a: FloatArray, batch: tuple[int, ...], tail: int, index: tuple[int, ...]) -> FloatArray:
+    """Element ``index`` of a batched array whose last ``tail`` axes are per-item."""
+    full = np.broadcast_to(a, (*batch, *a.shape[a.ndim - tail:]))
+    return np.array(full[index])
+
+
+def take(model: FrameModel, index: tuple[int, ...]) -> FrameModel:
+    """One model (no batch axes) out of a batch."""
+    batch = model.batch_shape
+    if len(index) != len(batch):
+        raise ModelError(f"batch index {index} does not match batch shape {batch}")
+    b, c, s = model.beams, model.connectors, model.springs
+    def one(a: FloatArray, tail: int = 1) -> FloatArray:
+        return _pick(a, batch, tail, index)
+
+    beams = Beams(nodes=b.nodes, E=one(b.E), G=one(b.G), A=one(b.A), Iy=one(b.Iy),
+                  Iz=one(b.Iz), J=one(b.J), Asy=one(b.Asy), Asz=one(b.Asz),
+                  ref=one(b.ref, 2), releases=b.releases, names=b.names)
+    conns = replace(c, stiffness=_pick(c.stiffness, batch, 2, index),
+                    frame=_pick(c.frame, batch, 3, index))
+    springs = replace(s, rate=_pick(s.rate, batch, 1, index), tension=_pick(s.tension, batch, 1,
+                                                                             index))
+    return replace(model, xyz=_pick(model.xyz, batch, 2, index), beams=beams,
+                   connectors=conns, springs=springs,
+                   ground=_pick(model.ground, batch, 2, index))
+
+
+def stack(models: Sequence[FrameModel]) -> FrameModel:
+    """A batch of shape (len(models),) from models that share one topology."""
+    first = models[0]
+    for m in models[1:]:
+        same = (
+            m.node_names == first.node_names
+            and np.array_equal(m.beams.nodes, first.beams.nodes)
+            and np.array_equal(m.beams.releases, first.beams.releases)
+            and np.array_equal(m.connectors.nodes, first.connectors.nodes)
+            and np.array_equal(m.connectors.rigid, first.connectors.rigid)
+            and np.array_equal(m.springs.nodes, first.springs.nodes)
+            and np.array_equal(m.fixed, first.fixed)
+        )
+        if not same:
+            raise ModelError("models in a batch must share nodes, elements and supports")
+
+    def st(get: str, obj: str | None = None) -> FloatArray:
+        def one(m: FrameModel) -> FloatArray:
+            holder = m if obj is None else getattr(m, obj)
+            return np.asarray(getattr(holder, get))
+        return np.stack([one(m) for m in models])
+
+    b = first.beams
+    beams = Beams(nodes=b.nodes, E=st("E", "beams"), G=st("G", "beams"), A=st("A", "beams"),
+                  Iy=st("Iy", "beams"), Iz=st("Iz", "beams"), J=st("J", "beams"),
+                  Asy=st("Asy", "beams"), Asz=st("Asz", "beams"), ref=st("ref", "beams"),
+                  releases=b.releases, names=b.names)
+    conns = replace(first.connectors, stiffness=st("stiffness", "connectors"),
+                    frame=st("frame", "connectors"))
+    springs: Springs = replace(first.springs, rate=st("rate", "springs"),
+                               tension=st("tension", "springs"))
+    return replace(first, xyz=st("xyz"), beams=beams, connectors=conns, springs=springs,
+                   ground=st("ground"))

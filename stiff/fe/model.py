@@ -1,0 +1,414 @@
+"""The frame model: nodes, members, connectors, springs and supports as arrays.
+
+A model is frozen and holds only arrays and names. Topology (which nodes each element joins,
+member end releases, which DOFs are fixed, which connector components are rigid) is shared by
+every model of a batch; geometry and properties may carry leading batch axes ``...`` so that a
+stack of poses or print variants is one model with ``xyz`` of shape (..., n_nodes, 3).
+
+Units: mm, N, MPa, N·mm, rad.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+import numpy.typing as npt
+
+from stiff.errors import ModelError
+
+FloatArray = npt.NDArray[np.float64]
+IntArray = npt.NDArray[np.intp]
+BoolArray = npt.NDArray[np.bool_]
+
+DOF_NAMES: tuple[str, ...] = ("ux", "uy", "uz", "rx", "ry", "rz")
+DOFS_PER_NODE = 6
+
+
+def _float(a: npt.ArrayLike) -> FloatArray:
+    return np.asarray(a, dtype=np.float64)
+
+
+def _pairs(a: npt.ArrayLike) -> IntArray:
+    out = np.asarray(a, dtype=np.intp).reshape(-1, 2)
+    return out
+
+
+@dataclass(frozen=True)
+class Beams:
+    """Members as 3D Timoshenko beams.
+
+    Attributes
+    ----------
+    nodes : (n, 2) node indices of end 1 and end 2
+    E, G : (..., n) modulus along the axis and shear modulus [MPa]
+    A : (..., n) area [mm²]
+    Iy, Iz : (..., n) second moments of area about local y and z [mm⁴]
+    J : (..., n) torsion constant [mm⁴]
+    Asy, Asz : (..., n) shear areas κA [mm²]; ``inf`` means no shear deformation
+    ref : (..., n, 3) reference vector: local y is its part normal to the member
+    releases : (n, 12) True where a member end carries no force in that local DOF
+    names : member names, for messages and results
+    """
+
+    nodes: IntArray
+    E: FloatArray
+    G: FloatArray
+    A: FloatArray
+    Iy: FloatArray
+    Iz: FloatArray
+    J: FloatArray
+    Asy: FloatArray
+    Asz: FloatArray
+    ref: FloatArray
+    releases: BoolArray
+    names: tuple[str, ...]
+
+    @staticmethod
+    def make(
+        nodes: npt.ArrayLike,
+        *,
+        E: npt.ArrayLike,
+        G: npt.ArrayLike,
+        A: npt.ArrayLike,
+        Iy: npt.ArrayLike,
+        Iz: npt.ArrayLike,
+        J: npt.ArrayLike,
+        Asy: npt.ArrayLike = math.inf,
+        Asz: npt.ArrayLike = math.inf,
+        ref: npt.ArrayLike = (0.0, 0.0, 1.0),
+        releases: npt.ArrayLike | None = None,
+        names: tuple[str, ...] | None = None,
+    ) -> Beams:
+        """Members from array-likes; scalars broadcast to every member."""
+        conn = _pairs(nodes)
+        n = conn.shape[0]
+
+        def per_member(v: npt.ArrayLike) -> FloatArray:
+            a = _float(v)
+            return np.broadcast_to(a, (*a.shape[:-1], n) if a.ndim else (n,)).copy()
+
+        ref_a = _float(ref)
+        ref_a = np.broadcast_to(ref_a, (*ref_a.shape[:-2], n, 3) if ref_a.ndim > 1 else (n, 3))
+        rel = np.zeros((n, 12), bool) if releases is None else np.asarray(releases, bool)
+        return Beams(
+            nodes=conn,
+            E=per_member(E),
+            G=per_member(G),
+            A=per_member(A),
+            Iy=per_member(Iy),
+            Iz=per_member(Iz),
+            J=per_member(J),
+            Asy=per_member(Asy),
+            Asz=per_member(Asz),
+            ref=ref_a.copy(),
+            releases=rel.reshape(n, 12),
+            names=names if names is not None else tuple(f"member {i}" for i in range(n)),
+        )
+
+    @staticmethod
+    def none() -> Beams:
+        """No members."""
+        return Beams.make(np.zeros((0, 2)), E=1.0, G=1.0, A=1.0, Iy=1.0, Iz=1.0, J=1.0)
+
+    @property
+    def count(self) -> int:
+        """Number of members."""
+        return int(self.nodes.shape[0])
+
+
+@dataclass(frozen=True)
+class Connectors:
+    """Six-component springs between two nodes, in a local frame.
+
+    The relative motion of node b against node a is measured at the midpoint of the two, so a
+    connector between nodes at different places (a pin through a stack of parts) takes no force
+    under rigid-body motion:
+    Δu = u_b − u_a + ½ [d]× (θ_a + θ_b), Δθ = θ_b − θ_a, d = x_b − x_a.
+
+    Attributes
+    ----------
+    nodes : (n, 2) node indices a, b
+    stiffness : (..., n, 6) along the local axes: translations [N/mm], rotations [N·mm/rad];
+        0 is free, ``inf`` rigid (the rigid pattern must be the same for the whole batch)
+    frame : (..., n, 3, 3) rows are the local axes in global coordinates
+    names : connector names
+    """
+
+    nodes: IntArray
+    stiffness: FloatArray
+    frame: FloatArray
+    names: tuple[str, ...]
+
+    @staticmethod
+    def make(
+        nodes: npt.ArrayLike,
+        stiffness: npt.ArrayLike,
+        frame: npt.ArrayLike | None = None,
+        names: tuple[str, ...] | None = None,
+    ) -> Connectors:
+        """Connectors; ``frame`` defaults to the global axes."""
+        conn = _pairs(nodes)
+        n = conn.shape[0]
+        k = _float(stiffness)
+        k = np.broadcast_to(k, (*k.shape[:-2], n, 6) if k.ndim > 1 else (n, 6)).copy()
+        f = np.eye(3) if frame is None else _float(frame)
+        f = np.broadcast_to(f, (*f.shape[:-3], n, 3, 3) if f.ndim > 2 else (n, 3, 3)).copy()
+        return Connectors(
+            nodes=conn,
+            stiffness=k,
+            frame=f,
+            names=names if names is not None else tuple(f"connector {i}" for i in range(n)),
+        )
+
+    @staticmethod
+    def none() -> Connectors:
+        """No connectors."""
+        return Connectors.make(np.zeros((0, 2)), np.zeros((0, 6)))
+
+    @property
+    def count(self) -> int:
+        """Number of connectors."""
+        return int(self.nodes.shape[0])
+
+    @property
+    def rigid(self) -> BoolArray:
+        """(n, 6) rigid components (shared by the whole batch)."""
+        inf = np.isinf(self.stiffness)
+        return inf.reshape(-1, *inf.shape[-2:])[0] if inf.ndim > 2 else inf
+
+
+@dataclass(frozen=True)
+class Springs:
+    """Axial springs (coil springs, rods that carry only axial force).
+
+    Attributes
+    ----------
+    nodes : (n, 2) node indices
+    rate : (..., n) spring rate [N/mm]
+    tension : (..., n) force in the spring at the model's geometry [N], tension +: it adds
+        the geometric stiffness (T/L)(I − e eᵀ) and, through :func:`preload_loads`, its pull
+    names : spring names
+    """
+
+    nodes: IntArray
+    rate: FloatArray
+    tension: FloatArray
+    names: tuple[str, ...]
+
+    @staticmethod
+    def make(
+        nodes: npt.ArrayLike,
+        rate: npt.ArrayLike,
+        tension: npt.ArrayLike = 0.0,
+        names: tuple[str, ...] | None = None,
+    ) -> Springs:
+        """Springs; scalars broadcast to every spring."""
+        conn = _pairs(nodes)
+        n = conn.shape[0]
+
+        def per_spring(v: npt.ArrayLike) -> FloatArray:
+            a = _float(v)
+            return np.broadcast_to(a, (*a.shape[:-1], n) if a.ndim else (n,)).copy()
+
+        return Springs(
+            nodes=conn,
+            rate=per_spring(rate),
+            tension=per_spring(tension),
+            names=names if names is not None else tuple(f"spring {i}" for i in range(n)),
+        )
+
+    @staticmethod
+    def none() -> Springs:
+        """No springs."""
+        return Springs.make(np.zeros((0, 2)), np.zeros(0))
+
+    @property
+    def count(self) -> int:
+        """Number of springs."""
+        return int(self.nodes.shape[0])
+
+
+@dataclass(frozen=True)
+class FrameModel:
+    """A whole frame: nodes, elements and supports. See the module docstring for shapes.
+
+    Attributes
+    ----------
+    xyz : (..., n_nodes, 3) node coordinates [mm]
+    node_names : one name per node
+    beams, connectors, springs : the elements
+    fixed : (n_nodes, 6) True where a DOF is held by a support
+    ground : (..., n_nodes, 6) springs to ground [N/mm or N·mm/rad], 0 where there is none
+    """
+
+    xyz: FloatArray
+    node_names: tuple[str, ...]
+    beams: Beams = field(default_factory=Beams.none)
+    connectors: Connectors = field(default_factory=Connectors.none)
+    springs: Springs = field(default_factory=Springs.none)
+    fixed: BoolArray = field(default_factory=lambda: np.zeros((0, 6), bool))
+    ground: FloatArray = field(default_factory=lambda: np.zeros((0, 6)))
+
+    @staticmethod
+    def make(
+        xyz: npt.ArrayLike,
+        *,
+        node_names: tuple[str, ...] | None = None,
+        beams: Beams | None = None,
+        connectors: Connectors | None = None,
+        springs: Springs | None = None,
+        fixed: npt.ArrayLike | None = None,
+        ground: npt.ArrayLike | None = None,
+    ) -> FrameModel:
+        """A validated model; raises :class:`ModelError` with a one-line reason."""
+        x = _float(xyz)
+        n = x.shape[-2]
+        model = FrameModel(
+            xyz=x,
+            node_names=node_names or tuple(f"node {i}" for i in range(n)),
+            beams=beams or Beams.none(),
+            connectors=connectors or Connectors.none(),
+            springs=springs or Springs.none(),
+            fixed=np.zeros((n, 6), bool) if fixed is None else np.asarray(fixed, bool),
+            ground=np.zeros((n, 6)) if ground is None else _float(ground),
+        )
+        validate(model)
+        return model
+
+    @property
+    def n_nodes(self) -> int:
+        """Number of nodes."""
+        return int(self.xyz.shape[-2])
+
+    @property
+    def n_dofs(self) -> int:
+        """Number of DOFs, six a node."""
+        return DOFS_PER_NODE * self.n_nodes
+
+    @property
+    def batch_shape(self) -> tuple[int, ...]:
+        """Leading batch shape shared by all batched arrays (() for one model)."""
+        arrays = [
+            self.xyz[..., 0, 0],
+            self.beams.E[..., 0] if self.beams.count else np.zeros(()),
+            self.connectors.stiffness[..., 0, 0] if self.connectors.count else np.zeros(()),
+            self.springs.rate[..., 0] if self.springs.count else np.zeros(()),
+            self.ground[..., 0, 0],
+        ]
+        return tuple(np.broadcast_shapes(*(a.shape for a in arrays)))
+
+    def dof_label(self, dof: int) -> str:
+        """'node name ux' for a global DOF index."""
+        return f"{self.node_names[dof // DOFS_PER_NODE]} {DOF_NAMES[dof % DOFS_PER_NODE]}"
+
+
+def _positive(name: str, what: str, values: FloatArray, labels: tuple[str, ...]) -> None:
+    """Raise unless every value is a positive number (``inf`` allowed)."""
+    bad = ~(values > 0.0)
+    if bad.any():
+        i = int(np.argwhere(bad)[0][-1])
+        raise ModelError(f"{labels[i]}: {what} must be a positive number, got {values[bad][0]!r}")
+    del name
+
+
+def _check_nodes(kind: str, conn: IntArray, n_nodes: int, labels: tuple[str, ...]) -> None:
+    bad = (conn < 0) | (conn >= n_nodes)
+    if bad.any():
+        i = int(np.argwhere(bad)[0][0])
+        raise ModelError(f"{labels[i]}: {kind} names node index {conn[i].tolist()}, "
+                         f"the model has {n_nodes} nodes")
+
+
+def _check_beams(model: FrameModel) -> None:
+    b = model.beams
+    if b.count == 0:
+        return
+    _check_nodes("member", b.nodes, model.n_nodes, b.names)
+    for attr, what in (("E", "E [MPa]"), ("G", "G [MPa]"), ("A", "area [mm²]"),
+                       ("Iy", "Iy [mm⁴]"), ("Iz", "Iz [mm⁴]"), ("J", "J [mm⁴]"),
+                       ("Asy", "shear area Asy [mm²]"), ("Asz", "shear area Asz [mm²]")):
+        values = getattr(b, attr)
+        if attr in ("E", "G", "A", "Iy", "Iz", "J") and np.isinf(values).any():
+            i = int(np.argwhere(np.isinf(values))[0][-1])
+            raise ModelError(f"{b.names[i]}: {what} must be finite")
+        _positive(attr, what, values, b.names)
+    d = model.xyz[..., b.nodes[:, 1], :] - model.xyz[..., b.nodes[:, 0], :]
+    L = np.linalg.norm(d, axis=-1)
+    scale = max(float(np.ptp(model.xyz.reshape(-1, 3), axis=0).max()), 1.0)
+    short = ~(1e-9 * scale < L)
+    if short.any():
+        i = int(np.argwhere(short)[0][-1])
+        raise ModelError(f"{b.names[i]}: zero-length member (both ends at the same point)")
+    ref = np.broadcast_to(b.ref, d.shape)
+    sin = np.linalg.norm(np.cross(d / L[..., None], ref), axis=-1) / np.maximum(
+        np.linalg.norm(ref, axis=-1), 1e-300)
+    parallel = ~(sin > 1e-6)
+    if parallel.any():
+        i = int(np.argwhere(parallel)[0][-1])
+        raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
+                         "(or zero), so its local y axis is undefined")
+
+
+def _check_connectors(model: FrameModel) -> None:
+    c = model.connectors
+    if c.count == 0:
+        return
+    _check_nodes("connector", c.nodes, model.n_nodes, c.names)
+    k = c.stiffness
+    bad = np.isnan(k) | (k < 0.0)
+    if bad.any():
+        i = int(np.argwhere(bad)[0][-2])
+        raise ModelError(f"{c.names[i]}: connector stiffness must be ≥ 0 or inf, got "
+                         f"{k[bad][0]!r}")
+    inf = np.isinf(k)
+    if (inf != c.rigid).any():
+        raise ModelError("connectors: which components are rigid must be the same in every "
+                         "model of a batch")
+    R = c.frame
+    err = np.abs(R @ np.swapaxes(R, -1, -2) - np.eye(3)).max(axis=(-1, -2))
+    if (~(err < 1e-9)).any():
+        i = int(np.argwhere(~(err < 1e-9))[0][-1])
+        raise ModelError(f"{c.names[i]}: connector frame is not a rotation (rows must be "
+                         "orthonormal)")
+
+
+def _check_springs(model: FrameModel) -> None:
+    s = model.springs
+    if s.count == 0:
+        return
+    _check_nodes("spring", s.nodes, model.n_nodes, s.names)
+    _positive("rate", "rate [N/mm]", s.rate, s.names)
+    if np.isinf(s.rate).any() or np.isnan(s.tension).any() or np.isinf(s.tension).any():
+        raise ModelError("springs: rate and tension must be finite numbers")
+    d = model.xyz[..., s.nodes[:, 1], :] - model.xyz[..., s.nodes[:, 0], :]
+    short = ~(np.linalg.norm(d, axis=-1) > 0.0)
+    if short.any():
+        i = int(np.argwhere(short)[0][-1])
+        raise ModelError(f"{s.names[i]}: zero-length spring (both ends at the same point)")
+
+
+def validate(model: FrameModel) -> None:
+    """Raise :class:`ModelError` with a one-line reason for the first malformed input."""
+    if model.xyz.shape[-1:] != (3,) or model.xyz.ndim < 2:
+        raise ModelError(f"node coordinates must have shape (..., n, 3), got {model.xyz.shape}")
+    if not np.isfinite(model.xyz).all():
+        i = int(np.argwhere(~np.isfinite(model.xyz))[0][-2])
+        raise ModelError(f"{model.node_names[i]}: node coordinates must be finite numbers")
+    n = model.n_nodes
+    if len(model.node_names) != n:
+        raise ModelError(f"{len(model.node_names)} node names for {n} nodes")
+    if model.fixed.shape != (n, 6):
+        raise ModelError(f"fixed DOFs must have shape ({n}, 6), got {model.fixed.shape}")
+    if model.ground.shape[-2:] != (n, 6):
+        raise ModelError(f"ground springs must have shape (..., {n}, 6)")
+    if (~(model.ground >= 0.0)).any() or np.isinf(model.ground).any():
+        raise ModelError("ground springs must be finite and ≥ 0 (use a fixed DOF for rigid)")
+    _check_beams(model)
+    _check_connectors(model)
+    _check_springs(model)
+    try:
+        model.batch_shape  # noqa: B018 - raises if the batch axes don't broadcast
+    except ValueError as err:
+        raise ModelError(f"batched arrays do not share a batch shape: {err}") from None
