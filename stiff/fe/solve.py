@@ -91,13 +91,15 @@ def reduce(model: FrameModel) -> Reduction:
 def _mode_names(model: FrameModel, red: Reduction, mode: FloatArray) -> tuple[tuple[str, str], ...]:
     """(node, DOF) pairs that move in the null modes (columns of ``mode``), largest first.
 
-    Rotations are weighed by the model's size so that they compare with translations.
+    Rotations are weighed by the model's size so that they compare with translations, and
+    each mode is scaled to its own largest motion before the modes are combined.
     """
     modes = mode.reshape(mode.shape[0], -1)
     u = red.expand(modes, model.n_dofs)
     size = max(float(np.ptp(model.xyz.reshape(-1, 3), axis=0).max()), 1.0)
     weight = np.tile(np.array([1.0, 1.0, 1.0, size, size, size]), model.n_nodes)
-    amp = np.sqrt(np.sum(u * u, axis=-1)) * weight
+    weighted = np.abs(u) * weight[:, None]
+    amp = (weighted / weighted.max(axis=0, keepdims=True)).max(axis=-1)
     order = np.argsort(-amp)
     picked = order[amp[order] > 0.25 * amp.max()]
     return tuple(
@@ -110,7 +112,8 @@ def _describe(free: tuple[tuple[str, str], ...]) -> str:
     by_node: dict[str, list[str]] = {}
     for node, dof in free:
         by_node.setdefault(node, []).append(dof)
-    parts = [f"{node} ({', '.join(dofs)})" for node, dofs in list(by_node.items())[:6]]
+    parts = [f"{node} ({', '.join(sorted(dofs, key=DOF_NAMES.index))})"
+             for node, dofs in list(by_node.items())[:6]]
     more = "" if len(by_node) <= 6 else f" and {len(by_node) - 6} more nodes"
     return "; ".join(parts) + more
 
