@@ -4,8 +4,11 @@ Every function here takes arrays with any leading batch shape ``...`` and an ele
 returns arrays of the same leading shape: one call builds all the element matrices of a model,
 or of a whole stack of models (poses, print variants).
 
-Local axes of a member: x runs from its first node to its second; y is the part of the member's
-reference vector perpendicular to x; z = x × y. DOF order at each end: ux, uy, uz, rx, ry, rz;
+Local axes of a member: x runs from its first node to its second; z is the part of the member's
+reference vector perpendicular to x; y = z × x. With the default reference vector (0, 0, 1) a
+member lying in the linkage plane (x-y) has local z along the pin axes, so in-plane bending is
+about local z (E·Iz) and a pin in the plane releases rz. DOF order at each end: ux, uy, uz,
+rx, ry, rz;
 an element's 12 DOFs are end 1 then end 2.
 
 Timoshenko beam (Przemieniecki, *Theory of Matrix Structural Analysis*, 1968, §5.6, Eq. 5.116;
@@ -139,7 +142,7 @@ def member_axes(
     Parameters
     ----------
     xyz_1, xyz_2 : end coordinates [mm], shape (..., n, 3)
-    ref : reference vectors, shape (..., n, 3); local y is the part of ``ref`` normal to x
+    ref : reference vectors, shape (..., n, 3); local z is the part of ``ref`` normal to x
 
     Returns
     -------
@@ -150,9 +153,9 @@ def member_axes(
     L = np.linalg.norm(d, axis=-1)
     ex = d / L[..., None]
     ref = np.broadcast_to(ref, ex.shape)
-    ey = ref - np.sum(ref * ex, axis=-1, keepdims=True) * ex
-    ey = ey / np.linalg.norm(ey, axis=-1, keepdims=True)
-    ez = np.cross(ex, ey)
+    ez = ref - np.sum(ref * ex, axis=-1, keepdims=True) * ex
+    ez = ez / np.linalg.norm(ez, axis=-1, keepdims=True)
+    ey = np.cross(ez, ex)
     return np.stack([ex, ey, ez], axis=-2), L
 
 

@@ -47,7 +47,8 @@ class Beams:
     Iy, Iz : (..., n) second moments of area about local y and z [mm⁴]
     J : (..., n) torsion constant [mm⁴]
     Asy, Asz : (..., n) shear areas κA [mm²]; ``inf`` means no shear deformation
-    ref : (..., n, 3) reference vector: local y is its part normal to the member
+    ref : (..., n, 3) reference vector: local z is its part normal to the member, local
+        y = z × x (default (0, 0, 1): local z along the linkage's pin axes)
     releases : (n, 12) True where a member end carries no force in that local DOF
     names : member names, for messages and results
     """
@@ -348,7 +349,7 @@ def _check_beams(model: FrameModel) -> None:
     if parallel.any():
         i = int(np.argwhere(parallel)[0][-1])
         raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
-                         "(or zero), so its local y axis is undefined")
+                         "(or zero), so its local z axis is undefined")
 
 
 def _check_connectors(model: FrameModel) -> None:

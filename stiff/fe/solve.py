@@ -248,8 +248,8 @@ def compliance(model: FrameModel, dofs: IntArray) -> FloatArray:
     E[dofs, np.arange(dofs.size)] = 1.0
     Er = fac.red.project_rhs(np.broadcast_to(E, (*fac.Kr.shape[:-2], *E.shape)))
     X = solve_reduced(fac.Kr, Er)
-    C = np.swapaxes(Er, -1, -2) @ X
-    return 0.5 * (C + np.swapaxes(C, -1, -2))
+    out: FloatArray = np.swapaxes(Er, -1, -2) @ X
+    return out
 
 
 def node_dofs(model: FrameModel, node: str | int, which: str = "ux uy uz") -> IntArray:
