@@ -16,8 +16,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.spatial.transform import Rotation
 
-from stiff.fe import Beams, Connectors, FrameModel, Springs, compliance, solve_static
-from stiff.fe import element
+from stiff.fe import Beams, Connectors, FrameModel, Springs, compliance, element, solve_static
 from stiff.fe.assemble import (
     beam_matrices,
     connector_kinematics,

@@ -125,7 +125,6 @@ def test_tube_torsion() -> None:
     T = 4_000.0  # N·mm
     model = FrameModel.make([[0, 0, 0], [L, 0, 0]], beams=tube([[0, 1]]), fixed=[FIXED, FREE])
     sol = solve_static(model, one_load(2, 1, 3, T))
-    assert J == pytest.approx(math.pi * (D**4 - d**4) / 32)
     assert sol.displacements[0, 1, 3] == pytest.approx(T * L / (G * J), rel=1e-12)
     assert sol.beam_forces[0, 0, 3] == pytest.approx(-T, rel=1e-12)
 
