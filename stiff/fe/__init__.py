@@ -10,9 +10,9 @@ from stiff.fe.batch import stack, take
 from stiff.fe.model import DOF_NAMES, Beams, Connectors, FrameModel, Springs
 from stiff.fe.results import Solution
 from stiff.fe.solve import (
+    assemble_model,
     buckling_factors,
     compliance,
-    factor,
     node_dofs,
     solve_second_order,
     solve_static,
@@ -25,9 +25,9 @@ __all__ = [
     "FrameModel",
     "Solution",
     "Springs",
+    "assemble_model",
     "buckling_factors",
     "compliance",
-    "factor",
     "node_dofs",
     "preload_loads",
     "solve_second_order",

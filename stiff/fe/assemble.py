@@ -1,8 +1,8 @@
 """Element matrices of a whole model, and their assembly into global arrays.
 
 All element matrices of one kind are built as one (..., n, k, k) array and summed into the
-global matrix through one sparse scatter map, so a stack of models costs one sparse-dense
-product rather than a Python loop.
+global matrix by one ``bincount`` over every entry of every model of a batch, rather than a
+Python loop over elements.
 """
 
 from __future__ import annotations
@@ -11,7 +11,6 @@ from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
-import scipy.sparse as sp
 
 from stiff.fe import element
 from stiff.fe.model import DOFS_PER_NODE, FloatArray, FrameModel, IntArray
@@ -130,44 +129,56 @@ def spring_geometric(model: FrameModel, tension: FloatArray) -> FloatArray:
     )
 
 
-def scatter(n_dofs: int, dofs: IntArray) -> sp.csr_array:
-    """Sparse map from flattened element matrices (n·k·k) to the flattened global matrix."""
-    n, k = dofs.shape
+def _targets(n_dofs: int, dofs: IntArray) -> IntArray:
+    """Flat global-matrix positions (n·k·k,) of the entries of element matrices."""
+    k = dofs.shape[1]
     rows = np.repeat(dofs, k, axis=1).reshape(-1)
     cols = np.tile(dofs, (1, k)).reshape(-1)
-    target = rows * n_dofs + cols
-    ones = np.ones(target.size)
-    return sp.csr_array((ones, (target, np.arange(target.size))), shape=(n_dofs**2, n * k * k))
+    out: IntArray = rows * n_dofs + cols
+    return out
 
 
-def add_elements(K: FloatArray, matrices: FloatArray, dofs: IntArray) -> FloatArray:
-    """K + Σ element matrices (..., n, k, k) scattered to their global DOFs; returns new K."""
-    if dofs.shape[0] == 0:
-        return K
-    n_dofs = K.shape[-1]
-    batch = matrices.shape[:-3]
-    flat = matrices.reshape(-1, matrices.shape[-3] * matrices.shape[-2] * matrices.shape[-1])
-    summed = np.asarray((scatter(n_dofs, dofs) @ flat.T).T, dtype=np.float64)
-    return K + summed.reshape(*batch, n_dofs, n_dofs)
+def assemble_matrix(
+    n_dofs: int, batch: tuple[int, ...], parts: list[tuple[FloatArray, IntArray]],
+    diagonal: FloatArray | None = None,
+) -> FloatArray:
+    """Σ element matrices (..., n, k, k) at their DOFs (n, k), plus a diagonal (..., n_dofs).
+
+    One ``bincount`` over every entry of every element of every model in the batch.
+    """
+    size = int(np.prod(batch, dtype=np.int64))
+    targets = [_targets(n_dofs, dofs) for _, dofs in parts if dofs.shape[0]]
+    weights = [np.broadcast_to(m, (*batch, *m.shape[-3:])).reshape(size, -1)
+               for m, dofs in parts if dofs.shape[0]]
+    if diagonal is not None:
+        targets.append(np.arange(n_dofs) * (n_dofs + 1))
+        weights.append(np.broadcast_to(diagonal, (*batch, n_dofs)).reshape(size, n_dofs))
+    if not targets:
+        return np.zeros((*batch, n_dofs, n_dofs))
+    target = np.concatenate(targets)
+    offsets = np.arange(size, dtype=np.intp)[:, None] * (n_dofs * n_dofs)
+    flat = np.bincount((target[None, :] + offsets).reshape(-1),
+                       weights=np.concatenate(weights, axis=1).reshape(-1),
+                       minlength=size * n_dofs * n_dofs)
+    return np.asarray(flat, dtype=np.float64).reshape(*batch, n_dofs, n_dofs)
 
 
 def global_stiffness(model: FrameModel, mats: BeamMatrices | None = None) -> FloatArray:
     """(..., n_dofs, n_dofs) elastic stiffness of every element, spring preload included.
 
-    Rigid connector components are not in it: they are constraints (see ``solve``).
+    Rigid connector components are not in it: they are constraints (see ``reduce``).
     """
-    n = model.n_dofs
-    K = np.zeros((*model.batch_shape, n, n))
+    parts: list[tuple[FloatArray, IntArray]] = []
     if model.beams.count:
         mats = mats or beam_matrices(model)
-        K = add_elements(K, element.to_global(mats.k_local, mats.R), beam_dofs(model))
+        parts.append((element.to_global(mats.k_local, mats.R), beam_dofs(model)))
     if model.connectors.count:
         G = connector_kinematics(model)
-        K = add_elements(K, connector_stiffness(model, G), connector_dofs(model))
+        parts.append((connector_stiffness(model, G), connector_dofs(model)))
     if model.springs.count:
-        K = add_elements(K, spring_stiffness(model, model.springs.tension), spring_dofs(model))
-    ground = model.ground.reshape(*model.ground.shape[:-2], n)
-    return K + ground[..., :, None] * np.eye(n)
+        parts.append((spring_stiffness(model, model.springs.tension), spring_dofs(model)))
+    ground = model.ground.reshape(*model.ground.shape[:-2], model.n_dofs)
+    return assemble_matrix(model.n_dofs, model.batch_shape, parts, ground)
 
 
 def preload_loads(model: FrameModel) -> FloatArray:

@@ -71,3 +71,26 @@ def stack(models: Sequence[FrameModel]) -> FrameModel:
                                tension=st("tension", "springs"))
     return replace(first, xyz=st("xyz"), beams=beams, connectors=conns, springs=springs,
                    ground=st("ground"))
+
+
+def batch_size(batch: tuple[int, ...]) -> int:
+    """Number of models in a batch shape."""
+    return int(np.prod(batch, dtype=np.int64))
+
+
+def flat_slice(model: FrameModel, batch: tuple[int, ...], start: int, stop: int) -> FrameModel:
+    """Models ``start:stop`` of the batch flattened to one axis (broadcast to ``batch``)."""
+
+    def cut(a: FloatArray, tail: int) -> FloatArray:
+        item = a.shape[a.ndim - tail:]
+        full = np.broadcast_to(a, (*batch, *item))
+        return full.reshape(batch_size(batch), *item)[start:stop]
+
+    b, c, s = model.beams, model.connectors, model.springs
+    beams = Beams(nodes=b.nodes, E=cut(b.E, 1), G=cut(b.G, 1), A=cut(b.A, 1), Iy=cut(b.Iy, 1),
+                  Iz=cut(b.Iz, 1), J=cut(b.J, 1), Asy=cut(b.Asy, 1), Asz=cut(b.Asz, 1),
+                  ref=cut(b.ref, 2), releases=b.releases, names=b.names)
+    conns = replace(c, stiffness=cut(c.stiffness, 2), frame=cut(c.frame, 3))
+    springs = replace(s, rate=cut(s.rate, 1), tension=cut(s.tension, 1))
+    return replace(model, xyz=cut(model.xyz, 2), beams=beams, connectors=conns,
+                   springs=springs, ground=cut(model.ground, 2))

@@ -207,12 +207,16 @@ def condense(
     k_condensed : (..., n, 12, 12) Sᵀ k S, zero at released DOFs
     S : (..., n, 12, 12) the condensation maps, also used for the geometric stiffness
     """
+    if not releases.any():
+        return k, np.broadcast_to(np.eye(12), k.shape)
     S = np.broadcast_to(np.eye(12), k.shape).copy()
+    k_condensed = k.copy()
     patterns, which = np.unique(releases, axis=0, return_inverse=True)
     for p, pattern in enumerate(patterns):
         if not pattern.any():
             continue
         members = np.flatnonzero(which.reshape(-1) == p)
-        S[..., members, :, :] = condensation_map(k[..., members, :, :], pattern)
-    k_condensed = np.swapaxes(S, -1, -2) @ k @ S
+        S_p = condensation_map(k[..., members, :, :], pattern)
+        S[..., members, :, :] = S_p
+        k_condensed[..., members, :, :] = np.swapaxes(S_p, -1, -2) @ k[..., members, :, :] @ S_p
     return k_condensed, S

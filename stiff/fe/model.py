@@ -17,6 +17,7 @@ import numpy as np
 import numpy.typing as npt
 
 from stiff.errors import ModelError
+from stiff.fe.element import local_stiffness
 
 FloatArray = npt.NDArray[np.float64]
 IntArray = npt.NDArray[np.intp]
@@ -177,7 +178,7 @@ class Connectors:
     def rigid(self) -> BoolArray:
         """(n, 6) rigid components (shared by the whole batch)."""
         inf = np.isinf(self.stiffness)
-        return inf.reshape(-1, *inf.shape[-2:])[0] if inf.ndim > 2 else inf
+        return inf[(0,) * (inf.ndim - 2)] if inf.ndim > 2 else inf
 
 
 @dataclass(frozen=True)
@@ -327,6 +328,7 @@ def _check_beams(model: FrameModel) -> None:
     if b.count == 0:
         return
     _check_nodes("member", b.nodes, model.n_nodes, b.names)
+    _check_releases(b)
     for attr, what in (("E", "E [MPa]"), ("G", "G [MPa]"), ("A", "area [mm²]"),
                        ("Iy", "Iy [mm⁴]"), ("Iz", "Iz [mm⁴]"), ("J", "J [mm⁴]"),
                        ("Asy", "shear area Asy [mm²]"), ("Asz", "shear area Asz [mm²]")):
@@ -350,6 +352,32 @@ def _check_beams(model: FrameModel) -> None:
         i = int(np.argwhere(parallel)[0][-1])
         raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
                          "(or zero), so its local z axis is undefined")
+
+
+_END_DOFS = ("ux1", "uy1", "uz1", "rx1", "ry1", "rz1", "ux2", "uy2", "uz2", "rx2", "ry2", "rz2")
+
+
+def _check_releases(b: Beams) -> None:
+    """A release pattern must leave the member able to carry a rigid-body motion's load.
+
+    Releasing, say, torsion at both ends lets the member spin freely about its axis: the
+    released block of its stiffness is singular and cannot be condensed. Whether it is depends
+    only on the pattern, so each distinct pattern is tried on a unit member.
+    """
+    if b.count == 0 or not b.releases.any():
+        return
+    one = np.ones(1)
+    k = local_stiffness(one, one, one, one, one, one, one, one, one)[0]
+    for pattern in np.unique(b.releases, axis=0):
+        r = np.flatnonzero(pattern)
+        if r.size == 0:
+            continue
+        w = np.linalg.eigvalsh(k[np.ix_(r, r)])
+        if w[0] <= 1e-9 * max(w[-1], 1e-300):
+            i = int(np.flatnonzero((b.releases == pattern).all(axis=1))[0])
+            released = ", ".join(_END_DOFS[j] for j in r)
+            raise ModelError(f"{b.names[i]}: releases {released} leave it free to move as a "
+                             "rigid body (e.g. torsion released at both ends); keep one end")
 
 
 def _check_connectors(model: FrameModel) -> None:

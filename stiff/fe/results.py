@@ -63,7 +63,7 @@ def _gather(u: FloatArray, dofs: np.ndarray) -> FloatArray:
 
 def _apply(matrix: FloatArray, vectors: FloatArray) -> FloatArray:
     """(..., n, a, b) @ (..., c, n, b) -> (..., c, n, a), with the case axis inserted."""
-    out: FloatArray = np.einsum("...nab,...cnb->...cna", matrix, vectors)
+    out: FloatArray = (matrix[..., None, :, :, :] @ vectors[..., None])[..., 0]
     return out
 
 
