@@ -3,11 +3,18 @@
 from __future__ import annotations
 
 import sys
+import typing
+from dataclasses import replace
+from pathlib import Path
 
 import click
 
 from stiff import __version__
-from stiff.errors import StiffError
+from stiff.errors import EXIT_BAD_INPUT, StiffError
+from stiff.materials import MaterialLibrary, load_library
+from stiff.printed_sections import PrintSettings, printed_rectangle, printed_round
+from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS, check_build_direction, check_pattern
+from stiff.report_text import material_detail, materials_list, section_comparison
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -34,3 +41,168 @@ def main() -> None:
         err.show()
         sys.exit(2)
     sys.exit(0)
+
+
+# ---------------------------------------------------------------------------------------------
+# Materials and sections
+
+
+class _InputError(click.ClickException):
+    """A bad-input StiffError raised inside a command, shown as one line; exit code 2."""
+
+    exit_code = EXIT_BAD_INPUT
+
+    def __init__(self, err: StiffError) -> None:
+        super().__init__(str(err))
+
+    def show(self, file: typing.IO[typing.Any] | None = None) -> None:
+        click.echo(f"stiff: error: {self.message}", err=True)
+
+
+def _library(user: tuple[Path, ...]) -> MaterialLibrary:
+    library = load_library()
+    for path in user:
+        library = library.with_file(path)
+    return library
+
+
+_USER = click.option(
+    "--user",
+    "user",
+    multiple=True,
+    type=click.Path(exists=True, dir_okay=False, path_type=Path),
+    help="A CSV file of your own materials (same columns as a built-in table); repeatable.",
+)
+
+
+@cli.command()
+@click.argument("name", required=False)
+@_USER
+def materials(name: str | None, user: tuple[Path, ...]) -> None:
+    """List the materials with their sources, or show the material NAME in full."""
+    try:
+        library = _library(user)
+        text = materials_list(library) if name is None else material_detail(library.get(name))
+    except StiffError as err:
+        raise _InputError(err) from err
+    click.echo(text)
+
+
+@cli.command()
+@click.argument("material")
+@click.option(
+    "--shape",
+    type=click.Choice(["rectangle", "round"]),
+    default="rectangle",
+    show_default=True,
+    help="Outline of the section.",
+)
+@click.option(
+    "--depth-mm",
+    type=click.FloatRange(min=0.0, min_open=True),
+    default=12.0,
+    show_default=True,
+    help="Rectangle: size in the linkage plane (along y) [mm].",
+)
+@click.option(
+    "--width-mm",
+    type=click.FloatRange(min=0.0, min_open=True),
+    default=6.0,
+    show_default=True,
+    help="Rectangle: size out of the plane, along the pins [mm].",
+)
+@click.option(
+    "--diameter-mm",
+    type=click.FloatRange(min=0.0, min_open=True),
+    default=10.0,
+    show_default=True,
+    help="Round: diameter [mm].",
+)
+@click.option(
+    "--walls",
+    type=click.IntRange(min=0),
+    default=3,
+    show_default=True,
+    help="Number of perimeter walls.",
+)
+@click.option(
+    "--line-width-mm",
+    type=click.FloatRange(min=0.0, min_open=True),
+    default=0.45,
+    show_default=True,
+    help="Width of one extruded line [mm].",
+)
+@click.option(
+    "--skins",
+    type=click.IntRange(min=0),
+    default=4,
+    show_default=True,
+    help="Number of solid top and bottom layers.",
+)
+@click.option(
+    "--layer-height-mm",
+    type=click.FloatRange(min=0.0, min_open=True),
+    default=0.2,
+    show_default=True,
+    help="Layer height [mm].",
+)
+@click.option(
+    "--infill-percent",
+    type=click.FloatRange(min=0.0, max=100.0, min_open=True),
+    default=20.0,
+    show_default=True,
+    help="Infill density [%].",
+)
+@click.option(
+    "--pattern",
+    type=click.Choice(INFILL_PATTERNS),
+    default="grid_45",
+    show_default=True,
+    help="Infill pattern.",
+)
+@click.option(
+    "--build",
+    type=click.Choice(BUILD_DIRECTIONS),
+    default="flat",
+    show_default=True,
+    help="Build direction: flat (layers in the linkage plane), on_edge (layers on "
+    "edge along the member), upright (layers across the member).",
+)
+@_USER
+def section(
+    material: str,
+    shape: str,
+    depth_mm: float,
+    width_mm: float,
+    diameter_mm: float,
+    walls: int,
+    line_width_mm: float,
+    skins: int,
+    layer_height_mm: float,
+    infill_percent: float,
+    pattern: str,
+    build: str,
+    user: tuple[Path, ...],
+) -> None:
+    """Stiffness and mass of a printed section of MATERIAL, beside the same section solid."""
+    try:
+        record = _library(user).printed_material(material)
+        settings = PrintSettings(
+            walls,
+            line_width_mm,
+            skins,
+            layer_height_mm,
+            infill_percent / 100.0,
+            check_pattern(pattern),
+            check_build_direction(build),
+        )
+        solid_settings = replace(settings, infill=1.0)
+        if shape == "round":
+            printed = printed_round(record, diameter_mm, settings)
+            solid = printed_round(record, diameter_mm, solid_settings)
+        else:
+            printed = printed_rectangle(record, width_mm, depth_mm, settings)
+            solid = printed_rectangle(record, width_mm, depth_mm, solid_settings)
+    except StiffError as err:
+        raise _InputError(err) from err
+    click.echo(section_comparison(printed, solid))

@@ -160,17 +160,40 @@ class PrintedMaterial:
 
     def provenance_of(self, column: str) -> str:
         """Where the value of ``column`` comes from: its row's source or the filling rule."""
-        rules = {
-            "E_z_MPa": "taken equal to E_xy_MPa (no published ratio)",
-            "G_xy_MPa": "E_xy/(2(1+nu)), isotropic relation [memory]",
-            "tension_across_lines_MPa": "taken equal to tension_z_MPa (conservative)",
-            "compression_MPa": "taken equal to tension_xy_MPa (conservative)",
-            "shear_xy_MPa": "0.5 x tension_xy_MPa, low end of 0.5-0.7 [memory]",
-            "shear_z_MPa": "0.6 x tension_z_MPa, low end of 0.6-1.0 [memory]",
-        }
-        if column in rules and getattr(self, column) is None:
-            return f"{self.name}: {column} blank in {self.origin or 'table'}: {rules[column]}"
+        if column in _PRINTED_RULES and getattr(self, column) is None:
+            rule = _PRINTED_RULES[column][1]
+            return f"{self.name}: {column} blank in {self.origin or 'table'}: {rule}"
         return _provenance(self, column)
+
+    def value_of(self, column: str) -> float | str | None:
+        """The value used for ``column``: the table's, or the one its filling rule gives."""
+        if column in _PRINTED_RULES and getattr(self, column) is None:
+            value: float = getattr(self, _PRINTED_RULES[column][0])
+            return value
+        found: float | str | None = getattr(self, column)
+        return found
+
+
+#: Columns of the printed table that a rule fills when blank: (property, rule).
+_PRINTED_RULES: Mapping[str, tuple[str, str]] = MappingProxyType(
+    {
+        "E_z_MPa": ("E_across_layers_MPa", "taken equal to E_xy_MPa (no published ratio)"),
+        "G_xy_MPa": ("G_in_layer_MPa", "E_xy/(2(1+nu)), isotropic relation [memory]"),
+        "tension_across_lines_MPa": (
+            "tension_in_layer_across_lines_MPa",
+            "taken equal to tension_z_MPa (conservative)",
+        ),
+        "compression_MPa": (
+            "compression_strength_MPa",
+            "taken equal to tension_xy_MPa (conservative)",
+        ),
+        "shear_xy_MPa": ("shear_in_layer_MPa", "0.5 x tension_xy_MPa, low end of 0.5-0.7 [memory]"),
+        "shear_z_MPa": (
+            "shear_across_layers_MPa",
+            "0.6 x tension_z_MPa, low end of 0.6-1.0 [memory]",
+        ),
+    }
+)
 
 
 @dataclass(frozen=True)
@@ -201,6 +224,11 @@ class TubeMaterial:
     def provenance_of(self, column: str) -> str:
         """Where the value of ``column`` comes from."""
         return _provenance(self, column)
+
+    def value_of(self, column: str) -> float | str | None:
+        """The value of ``column`` (``None`` when blank)."""
+        found: float | str | None = getattr(self, column)
+        return found
 
 
 @dataclass(frozen=True)
@@ -241,8 +269,15 @@ class MetalMaterial:
     def provenance_of(self, column: str) -> str:
         """Where the value of ``column`` comes from."""
         if column == "G_MPa" and self.G_MPa is None:
-            return f"{self.name}: G_MPa = E/(2(1+nu)), isotropic relation"
+            return f"{self.name}: G_MPa blank in {self.origin or 'table'}: E/(2(1+nu)), isotropic"
         return _provenance(self, column)
+
+    def value_of(self, column: str) -> float | str | None:
+        """The value used for ``column``: the table's, or E/(2(1+ν)) for a blank ``G_MPa``."""
+        if column == "G_MPa":
+            return self.shear_modulus_MPa
+        found: float | str | None = getattr(self, column)
+        return found
 
 
 @dataclass(frozen=True)
@@ -279,8 +314,15 @@ class AdhesiveMaterial:
     def provenance_of(self, column: str) -> str:
         """Where the value of ``column`` comes from."""
         if column == "G_MPa" and self.G_MPa is None:
-            return f"{self.name}: G_MPa = E/(2(1+nu)), isotropic relation"
+            return f"{self.name}: G_MPa blank in {self.origin or 'table'}: E/(2(1+nu)), isotropic"
         return _provenance(self, column)
+
+    def value_of(self, column: str) -> float | str | None:
+        """The value used for ``column``: the table's, or E/(2(1+ν)) for a blank ``G_MPa``."""
+        if column == "G_MPa":
+            return self.shear_modulus_MPa
+        found: float | str | None = getattr(self, column)
+        return found
 
 
 @dataclass(frozen=True)
@@ -312,6 +354,8 @@ def _provenance(record: Material, column: str) -> str:
     if column not in known:
         raise MaterialError(record.origin or None, record.name, column, "no such column")
     where = f"{record.origin}, " if record.origin else ""
+    if getattr(record, column) is None:
+        return f"{record.name} ({where}{column}): blank, no value"
     return f"{record.name} ({where}{record.confidence}): {record.source}"
 
 
@@ -416,6 +460,7 @@ class MaterialLibrary:
     metals: Mapping[str, MetalMaterial]
     adhesives: Mapping[str, AdhesiveMaterial]
     tube_sizes: tuple[TubeSize, ...]
+    where: str = "materials"
 
     def _by_kind(self) -> Mapping[MaterialKind, Mapping[str, Material]]:
         return {
@@ -486,7 +531,7 @@ class MaterialLibrary:
             if size.name.lower() == name.strip().lower():
                 return size
         known = ", ".join(s.name for s in self.tube_sizes)
-        raise MaterialError(None, None, None, f"unknown tube size {name!r}; known: {known}")
+        raise MaterialError(self.where, None, "name", f"unknown tube size {name!r}; known: {known}")
 
     def _with(
         self, kind: MaterialKind, records: Mapping[str, Material], where: str
@@ -508,6 +553,7 @@ class MaterialLibrary:
             tubes=MappingProxyType(tables["tube"]),  # type: ignore[arg-type]
             metals=MappingProxyType(tables["metal"]),  # type: ignore[arg-type]
             adhesives=MappingProxyType(tables["adhesive"]),  # type: ignore[arg-type]
+            where=f"{self.where} + {where}",
         )
 
     def with_file(self, path: Path, kind: MaterialKind | None = None) -> MaterialLibrary:
@@ -569,7 +615,7 @@ def _find(table: Mapping[str, _R], name: str) -> _R | None:
 def _unknown(library: MaterialLibrary, name: str, kind: MaterialKind | None) -> MaterialError:
     what = "material" if kind is None else f"{kind} material"
     known = ", ".join(library.names(kind))
-    return MaterialError(None, None, None, f"unknown {what} {name!r}; known: {known}")
+    return MaterialError(library.where, None, "name", f"unknown {what} {name!r}; known: {known}")
 
 
 def load_library(directory: Path = MATERIALS_DIR) -> MaterialLibrary:
@@ -598,6 +644,7 @@ def load_library(directory: Path = MATERIALS_DIR) -> MaterialLibrary:
         metals=MappingProxyType(tables["metal"]),  # type: ignore[arg-type]
         adhesives=MappingProxyType(tables["adhesive"]),  # type: ignore[arg-type]
         tube_sizes=load_tube_sizes(directory / TUBE_SIZES_FILE),
+        where=display(directory),
     )
 
 

@@ -1,4 +1,4 @@
-"""Cross-section stiffness of a composite section on a grid of rectangular cells (finite volumes).
+"""Cross-section stiffness of a composite section: finite volumes on a grid, or linear triangles.
 
 The section lies in the y-z plane; each cell has its own modulus E (along the member) and shear
 modulus G. Bonded regions, no slip. With unit twist θ' = 1, the Prandtl stress function φ solves
@@ -101,7 +101,7 @@ def _operator(
     )
 
 
-def _neumann_energy(K: sp.csr_matrix, rhs: FloatArray) -> float:
+def _neumann_energy(K: sp.csr_matrix | sp.csc_matrix, rhs: FloatArray) -> float:
     """ωᵀKω for K ω = rhs with ω pinned at cell 0 (K singular with constants, Σ rhs = 0)."""
     sub = K[1:, 1:].tocsc()
     omega = spla.spsolve(sub, rhs[1:])
@@ -176,3 +176,83 @@ def graded_edges(
         np.linspace(lo, hi, n + 1)[1:] for lo, hi, n in zip(b[:-1], b[1:], counts, strict=True)
     ]
     return np.concatenate(pieces)
+
+
+def mesh_stiffness(
+    points: FloatArray,
+    triangles: npt.NDArray[np.int64],
+    E: FloatArray,
+    G_xy: FloatArray,
+    G_xz: FloatArray,
+) -> GridStiffness:
+    """Stiffness of a section meshed with linear triangles (finite elements), same problems.
+
+    Parameters
+    ----------
+    points
+        Node coordinates (n, 2) as (y, z) [mm]; the outline is the mesh's boundary, which must
+        be convex (a Delaunay mesh of points on and inside a circle).
+    triangles
+        Node indices (m, 3), any orientation.
+    E, G_xy, G_xz
+        Modulus along the member and shear moduli for τ_xy and τ_xz of each triangle [MPa].
+
+    Notes
+    -----
+    Same equations as :func:`grid_stiffness`, weak form with linear elements: EA and EI are
+    exact for the polygon, GJ and κGA converge with the square of the element size.
+    """
+    xy = points[triangles]  # (m, 3, 2)
+    y, z = xy[..., 0], xy[..., 1]
+    # gradients of the three shape functions: b = dN/dy, c = dN/dz
+    b = np.stack([z[:, 1] - z[:, 2], z[:, 2] - z[:, 0], z[:, 0] - z[:, 1]], axis=1)
+    c = np.stack([y[:, 2] - y[:, 1], y[:, 0] - y[:, 2], y[:, 1] - y[:, 0]], axis=1)
+    twice = (y[:, 1] - y[:, 0]) * (z[:, 2] - z[:, 0]) - (y[:, 2] - y[:, 0]) * (z[:, 1] - z[:, 0])
+    area = np.abs(twice) / 2.0
+    b, c = b / twice[:, None], c / twice[:, None]
+    EA = float(np.sum(E * area))
+    # ∫ y dA and ∫ y² dA over a triangle, exact for linear y
+    ym, zm = y.mean(axis=1), z.mean(axis=1)
+    yc, zc = float(np.sum(E * area * ym) / EA), float(np.sum(E * area * zm) / EA)
+    yl, zl = y - yc, z - zc
+
+    def second(u: FloatArray, v: FloatArray) -> FloatArray:
+        """∫ u v dA over each triangle for u, v linear (nodal values)."""
+        return np.asarray(area / 12.0 * (u.sum(1) * v.sum(1) + (u * v).sum(1)), np.float64)
+
+    EIz = float(np.sum(E * second(yl, yl)))
+    EIy = float(np.sum(E * second(zl, zl)))
+    n = points.shape[0]
+    rows = np.repeat(triangles, 3, axis=1).ravel()
+    cols = np.tile(triangles, (1, 3)).ravel()
+
+    def stiffness(k_y: FloatArray, k_z: FloatArray) -> sp.csr_matrix:
+        local = area[:, None, None] * (
+            k_y[:, None, None] * b[:, :, None] * b[:, None, :]
+            + k_z[:, None, None] * c[:, :, None] * c[:, None, :]
+        )
+        return sp.csr_matrix((local.ravel(), (rows, cols)), shape=(n, n))
+
+    def load(weight: FloatArray) -> FloatArray:
+        """Consistent nodal load of a field linear in each triangle with nodal values ``weight``."""
+        per_node = area[:, None] / 12.0 * (weight.sum(1)[:, None] + weight)
+        out = np.zeros(n)
+        np.add.at(out, triangles, per_node)
+        return np.asarray(out, np.float64)
+
+    # torsion: flux along y meets 1/G_xz, along z 1/G_xy; φ = 0 on the boundary nodes
+    Kt = stiffness(1.0 / G_xz, 1.0 / G_xy).tocsc()
+    edges = np.sort(
+        np.concatenate([triangles[:, [0, 1]], triangles[:, [1, 2]], triangles[:, [2, 0]]]), axis=1
+    )
+    unique, counts = np.unique(edges, axis=0, return_counts=True)
+    boundary = np.unique(unique[counts == 1])
+    free = np.setdiff1d(np.arange(n), boundary)
+    f_t = load(np.full(y.shape, 2.0))
+    phi = spla.spsolve(Kt[free][:, free], f_t[free])
+    GJ = float(np.dot(phi, f_t[free]))
+
+    Ks = stiffness(G_xy, G_xz).tocsc()
+    GAsy = 1.0 / _neumann_energy(Ks, load(E[:, None] * yl / EIz))
+    GAsz = 1.0 / _neumann_energy(Ks, load(E[:, None] * zl / EIy))
+    return GridStiffness(EA, EIy, EIz, GJ, GAsy, GAsz, yc, zc)
