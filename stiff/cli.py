@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import json
 import sys
 import typing
 from dataclasses import replace
@@ -9,11 +10,22 @@ from pathlib import Path
 
 import click
 
-from stiff import __version__
-from stiff.errors import EXIT_BAD_INPUT, StiffError
+from stiff import CASES_DIR, __version__
+from stiff.case import load_case
+from stiff.check import run_check
+from stiff.errors import (
+    EXIT_BAD_INPUT,
+    EXIT_CHECK_FAILED,
+    EXIT_OK,
+    EXIT_UNSOLVABLE,
+    CaseError,
+    StiffError,
+)
 from stiff.materials import MaterialLibrary, load_library
 from stiff.printed_sections import PrintSettings, printed_rectangle, printed_round
 from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS, check_build_direction, check_pattern
+from stiff.report.results_json import results_dict, write_results
+from stiff.report.summary import summary_lines
 from stiff.report_text import material_detail, materials_list, section_comparison
 
 
@@ -30,7 +42,7 @@ def cli() -> None:
 def main() -> None:
     """Console entry point: run the group and turn a StiffError into one line and an exit code."""
     try:
-        cli.main(standalone_mode=False)
+        code = cli.main(standalone_mode=False)
     except StiffError as err:
         click.echo(f"stiff: error: {err}", err=True)
         sys.exit(err.exit_code)
@@ -39,8 +51,8 @@ def main() -> None:
         sys.exit(1)
     except click.ClickException as err:
         err.show()
-        sys.exit(2)
-    sys.exit(0)
+        sys.exit(err.exit_code)
+    sys.exit(code if isinstance(code, int) else 0)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -57,6 +69,17 @@ class _InputError(click.ClickException):
 
     def show(self, file: typing.IO[typing.Any] | None = None) -> None:
         click.echo(f"stiff: error: {self.message}", err=True)
+
+
+class _UnsolvableError(_InputError):
+    """The model cannot be solved (a mechanism, an unreachable pose); exit code 3."""
+
+    exit_code = EXIT_UNSOLVABLE
+
+
+def _command_error(err: StiffError) -> _InputError:
+    """The click exception that shows ``err`` as one line with its exit code."""
+    return _UnsolvableError(err) if err.exit_code == EXIT_UNSOLVABLE else _InputError(err)
 
 
 def _library(user: tuple[Path, ...]) -> MaterialLibrary:
@@ -206,3 +229,43 @@ def section(
     except StiffError as err:
         raise _InputError(err) from err
     click.echo(section_comparison(printed, solid))
+
+
+# ---------------------------------------------------------------------------------------------
+# Check
+
+
+@cli.command()
+@click.argument("case_file", required=False, type=click.Path(path_type=Path, dir_okay=False))
+@click.option("--out", "out_dir", type=click.Path(path_type=Path),
+              help="Folder to write results.json into (made if missing).")
+@click.option("--json", "as_json", is_flag=True, help="Print results.json to stdout instead.")
+@click.option("--quiet", is_flag=True, help="Print only the verdict line.")
+@click.pass_context
+def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_json: bool,
+          quiet: bool) -> None:
+    """Solve CASE_FILE (default: the bundled five-bar leg demo) in its pose and report.
+
+    Foot compliance and its principal directions, lateral compliance and twist, where the give
+    comes from, and actuator torques under the stance load. Exit code 1 when a target in the
+    case is not met.
+    """
+    path = case_file or CASES_DIR / "five_bar_leg.toml"
+    try:
+        if not path.is_file():
+            raise CaseError(path, "(file)", "no such case file")
+        result = run_check(load_case(path))
+        written = write_results(result, out_dir) if out_dir is not None else None
+    except StiffError as err:
+        raise _command_error(err) from err
+    if as_json:
+        click.echo(json.dumps(results_dict(result), indent=2, ensure_ascii=False))
+    elif quiet:
+        verdict = "all targets met" if result.all_met else "a target is not met"
+        click.echo(f"{result.case.title}: {verdict}")
+    else:
+        click.echo("\n".join(summary_lines(result)))
+    if written is not None and not as_json:
+        click.echo(f"results: {written}")
+    ctx.exit(EXIT_OK if result.all_met else EXIT_CHECK_FAILED)
+
