@@ -591,6 +591,13 @@ class MaterialLibrary:
         optional = {c.name for c in columns if not c.required}
         rows = []
         for name, values in records.items():
+            known = {c.name for c in columns} - {"name"}
+            missing = [c for c in known - optional if c not in values]
+            if missing:
+                raise MaterialError(origin, name, sorted(missing)[0], "missing")
+            unknown = sorted(set(values) - known)
+            if unknown:
+                raise MaterialError(origin, name, unknown[0], "unknown key")
             row = {c.name: "" for c in columns if c.name in optional}
             row.update({key: "" if value is None else str(value) for key, value in values.items()})
             row["name"] = name
