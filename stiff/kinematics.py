@@ -337,6 +337,23 @@ def solve_pose(link: Linkage, angles_rad: npt.ArrayLike) -> Pose:
     return _pose(link, z, target, measure)
 
 
+def reference_pose(link: Linkage) -> Pose:
+    """The pose as drawn: every part where the case puts it, actuators at their angles.
+
+    Needs no loop closure, so it also serves linkages that springs or supports hold rather
+    than actuators (their drawn pose is the only one asked of them).
+    """
+    z = np.zeros(3 * len(link.moving))
+    angles = np.asarray(link.reference_angles_rad, dtype=float)
+    residual = float(np.abs(_equations(link, z, angles)).max(initial=0.0))
+    if residual > 1e-6 * link.size_mm:
+        raise PoseError(f"the drawn pose does not close: the {_failing_loop(link, z, angles)} "
+                        f"is open by {residual:.3g} mm; check the node coordinates")
+    Jz, _ = _jacobians(link, z, angles)
+    measure = singularity_measure(link, Jz) if Jz.shape[0] >= Jz.shape[1] else 1.0
+    return _pose(link, z, angles, measure)
+
+
 def _pose(link: Linkage, z: FloatArray, angles: FloatArray, measure: float) -> Pose:
     phi, t = _unpack(link, z)
     xy = np.array([_place(phi[p], t[p], np.asarray(q))

@@ -10,7 +10,14 @@ from __future__ import annotations
 import numpy as np
 
 from stiff.case import BODY, Case
-from stiff.kinematics import KinJoint, Linkage, Pose, solve_foot_target, solve_pose
+from stiff.kinematics import (
+    KinJoint,
+    Linkage,
+    Pose,
+    reference_pose,
+    solve_foot_target,
+    solve_pose,
+)
 
 
 def part_index(case: Case) -> dict[str, int]:
@@ -52,4 +59,6 @@ def case_pose(case: Case, link: Linkage | None = None) -> Pose:
         return solve_foot_target(link, foot, case.pose_foot_mm)
     angles = np.array([(case.pose_angles_rad or {}).get(a.name, a.angle_rad)
                        for a in case.actuators])
+    if np.array_equal(angles, np.asarray(link.reference_angles_rad, dtype=float)):
+        return reference_pose(link)
     return solve_pose(link, angles)
