@@ -7,7 +7,8 @@ plate thickness, out of the linkage plane) and ``depth_mm`` along y (in the plan
 
 Every section comes out as a :class:`BeamSection`. For one material its fields are the plain
 geometric values. For a printed (composite) section they are a *transformed section*: ``E_MPa``
-and ``G_MPa`` are the solid material's moduli along the member (the reference), and ``A_mm2``,
+is the solid material's modulus along the member and ``G_MPa`` the mean of its two shear moduli
+(τ_xy and τ_xz; the references), and ``A_mm2``,
 ``Iy_mm4``, ``Iz_mm4``, ``J_mm4``, ``Asy_mm2``, ``Asz_mm2`` are modulus-weighted so that the
 products EA, EI, GJ and κGA are right; ``density_t_mm3`` is chosen so that density x A is the mass
 per length. Only the products are physical; use the properties ``EA``, ``EIy``, ...
@@ -19,7 +20,11 @@ Printed sections (walls and skins around an infill core) are built by
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
 
 from stiff.materials import MetalMaterial, TubeMaterial
 from stiff.printing import SectionError
@@ -219,7 +224,15 @@ def tube(
 
 
 def tube_section(od_mm: float, id_mm: float, material: TubeMaterial | MetalMaterial) -> BeamSection:
-    """A tube of a carbon-fibre tube material (orthotropic, κ = 0.5) or a metal (Cowper)."""
+    """A tube of a carbon-fibre tube material (orthotropic, κ = 0.5) or a metal (Cowper's κ).
+
+    Parameters
+    ----------
+    od_mm, id_mm
+        Outer and inner diameter [mm].
+    material
+        The tube's material record.
+    """
     label = f"tube {od_mm:g}x{id_mm:g} {material.name}"
     if isinstance(material, TubeMaterial):
         return tube(
@@ -287,3 +300,26 @@ def solid_round(
         density_t_mm3,
         label,
     )
+
+
+def section_arrays(sections: Sequence[BeamSection]) -> dict[str, npt.NDArray[np.float64]]:
+    """The fields of several sections as arrays, one entry a member, keyed as the engine's beams.
+
+    Returns ``E``, ``G`` [MPa], ``A``, ``Asy``, ``Asz`` [mm²], ``Iy``, ``Iz``, ``J`` [mm⁴] and
+    ``density`` [t/mm³], each of shape (n,).
+    """
+    columns = {
+        "E": "E_MPa",
+        "G": "G_MPa",
+        "A": "A_mm2",
+        "Iy": "Iy_mm4",
+        "Iz": "Iz_mm4",
+        "J": "J_mm4",
+        "Asy": "Asy_mm2",
+        "Asz": "Asz_mm2",
+        "density": "density_t_mm3",
+    }
+    return {
+        key: np.array([getattr(s, field) for s in sections], dtype=np.float64)
+        for key, field in columns.items()
+    }

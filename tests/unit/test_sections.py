@@ -18,6 +18,7 @@ from stiff.sections import (
     BeamSection,
     cowper_hollow_circle,
     cowper_rectangle,
+    section_arrays,
     solid_rectangle,
     solid_round,
     tube,
@@ -293,3 +294,19 @@ def test_core_law_is_the_patterns() -> None:
     )
     # τ_xz acts on the layer plane of a flat part: the prismatic webs' law, interlayer G
     assert core.G_xz_MPa == pytest.approx(0.125 * PLA.G_across_layers_MPa)
+
+
+def test_section_arrays_line_up_with_the_members() -> None:
+    cf = LIBRARY.tube_material("CF-pultruded")
+    sections = [
+        tube_section(10.0, 8.0, cf),
+        printed_rectangle(PLA, 6.0, 12.0, PrintSettings()).beam,
+    ]
+    arrays = section_arrays(sections)
+    assert set(arrays) == {"E", "G", "A", "Iy", "Iz", "J", "Asy", "Asz", "density"}
+    assert arrays["E"].shape == (2,)
+    # E x A and density x A give back each section's products
+    np.testing.assert_allclose(arrays["E"] * arrays["A"], [s.EA for s in sections], rtol=1e-14)
+    np.testing.assert_allclose(
+        arrays["density"] * arrays["A"], [s.mass_per_length for s in sections], rtol=1e-14
+    )
