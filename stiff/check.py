@@ -147,7 +147,7 @@ def run_check(case: Case) -> CheckResult:
     if case.loads.lateral_fraction:
         side = abs(force) * case.loads.lateral_fraction
         lateral = _load_case(built, case, "lateral push", f"sideways foot force {side:.3g} N "
-                             f"({case.loads.lateral_fraction:g} of the stance force), out of "
+                             f"({case.loads.lateral_fraction:g} of the {name} force), out of "
                              "the linkage plane", (0.0, 0.0, side), with_preload=False)
         cases.append(lateral)
         if t.max_lateral_deflection_mm is not None:

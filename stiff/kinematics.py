@@ -42,7 +42,7 @@ CLOSURE = 1e-12
 TRANSMISSION_LIMIT_DEG = 40.0
 #: Below this inverse condition number of the scaled constraint Jacobian a pose is reported
 #: as near a singularity (common practice: forces in the links grow as 1/measure).
-SINGULAR_WARNING = 0.02
+SINGULAR_WARNING = 0.005
 
 
 @dataclass(frozen=True)
