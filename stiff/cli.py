@@ -181,7 +181,8 @@ def materials(name: str | None, user: tuple[Path, ...]) -> None:
     type=click.Choice(INFILL_PATTERNS),
     default="grid_45",
     show_default=True,
-    help="Infill pattern.",
+    help="Infill pattern: grid (lines along and across the member), grid_45 (lines at "
+    "±45° to it), triangles, honeycomb, gyroid.",
 )
 @click.option(
     "--build",
