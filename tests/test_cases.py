@@ -63,3 +63,14 @@ def test_hopping_leg_stance_force_is_its_weight() -> None:
     assert stance.name == "stance"
     assert stance.foot_force_N[1] == pytest.approx(1.2e-3 * G_MM_PER_S2, rel=1e-12)
     assert all(a.margin > 1 for a in stance.actuators)
+
+
+def test_the_annotated_example_in_cases_readme_runs(tmp_path: Path) -> None:
+    """The format's documentation stays true: its complete example is a valid case."""
+    text = (CASES_DIR / "README.md").read_text(encoding="utf-8")
+    example = text.split("```toml\n", 1)[1].split("```", 1)[0]
+    path = tmp_path / "example.toml"
+    path.write_text(example, encoding="utf-8")
+    result = run_check(load_case(path))
+    assert result.case.title == "Knee test rig"
+    assert {a.name for a in result.load_cases[0].actuators} == {"hip_servo", "knee_servo"}
