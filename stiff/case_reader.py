@@ -54,6 +54,53 @@ def choice(*options: str, required: bool = False) -> Field:
     return Field("str", required=required, choices=options)
 
 
+_KEY_PART = r"""(?:[A-Za-z0-9_-]+|"(?:[^"\\\n]|\\.)*"|'[^'\n]*')"""
+_DOTTED = rf"{_KEY_PART}(?:[ \t]*\.[ \t]*{_KEY_PART})*"
+_HEADER = re.compile(rf"^\s*\[\[?\s*({_DOTTED})\s*\]\]?")
+_OPEN_HEADER = re.compile(rf"^\s*\[\[?\s*({_DOTTED})")  # a header, closed or not
+_ASSIGN = re.compile(rf"^\s*({_DOTTED})\s*=")
+_KEY_START = re.compile(rf"^\s*({_DOTTED})")  # the key a statement starts with
+#: tomllib's words for a key or table given twice.
+_TWICE = ("Cannot declare", "Cannot overwrite a value", "Cannot redefine namespace",
+          "Duplicate inline table key")
+_AT = re.compile(r"^(.*) \(at (?:line (\d+), column \d+|end of document)\)$", re.S)
+
+
+def _key_parts(dotted: str) -> tuple[str, ...]:
+    """``a."b c".d`` -> ("a", "b c", "d") (quotes dropped, escapes kept as written)."""
+    return tuple(p[1:-1] if p[0] in "\"'" else p for p in re.findall(_KEY_PART, dotted))
+
+
+def _decode_error(err: tomllib.TOMLDecodeError, text: str) -> tuple[str, int | None]:
+    """The parser's message without its position, and the line it stopped at."""
+    msg: str | None = getattr(err, "msg", None)
+    line: int | None = getattr(err, "lineno", None)
+    if msg is None:  # before Python 3.14 the position is only in the text
+        found = _AT.match(str(err))
+        if not found:
+            return str(err), None
+        msg = found.group(1)
+        at_end = text.rstrip("\n").count("\n") + 1  # "at end of document"
+        line = int(found.group(2)) if found.group(2) else at_end
+    return msg, line
+
+
+def _did_you_mean(name: str, names: tuple[str, ...]) -> str:
+    """``; did you mean 'x'?`` for the closest of ``names`` (ignoring case first), or ""."""
+    same = [n for n in names if n.casefold() == name.casefold()]
+    close = same or difflib.get_close_matches(name, names, n=1)
+    if not close:
+        folded = {n.casefold(): n for n in names}
+        close = [folded[c] for c in difflib.get_close_matches(name.casefold(), list(folded), n=1)]
+    return f"; did you mean '{close[0]}'?" if close else ""
+
+
+def _listing(names: tuple[str, ...]) -> str:
+    if not names:
+        return "none"
+    return ", ".join(names) if len(names) <= 12 else ", ".join(names[:12]) + ", ..."
+
+
 def _type_name(value: object) -> str:
     if isinstance(value, bool):
         return "true/false"
@@ -77,44 +124,89 @@ class Reader:
 
     @staticmethod
     def parse(file: Path | None, text: str) -> tuple[Reader, dict[str, Any]]:
-        """The reader and the parsed document; a syntax error becomes a CaseError."""
+        """The reader and the parsed document; a syntax error becomes a CaseError.
+
+        The error names the key (or table) written on the line the parser stopped at, and
+        says a name given twice in plain words, the commonest way to break a case by hand.
+        """
+        reader = Reader(file, text)
         try:
             data = tomllib.loads(text)
         except tomllib.TOMLDecodeError as err:
-            line = getattr(err, "lineno", None)
-            msg = getattr(err, "msg", str(err).split(" (at ")[0])
-            raise CaseError(file, "(syntax)", f"not valid TOML: {msg}", line) from None
-        return Reader(file, text), data
+            msg, line = _decode_error(err, text)
+            key = reader.key_at(line) if line is not None else None
+            if msg.startswith(_TWICE):
+                why = "defined twice (each key and table may be given once)"
+            elif msg.startswith("Cannot mutate immutable namespace"):
+                why = ("adds to an inline table { ... }, which is complete where it is "
+                       "written")
+            else:
+                why = f"not valid TOML: {msg}"
+            raise CaseError(file, key or "(syntax)", why, line) from None
+        return reader, data
 
     # --- locating keys ------------------------------------------------------------------
 
+    def _lines(self) -> list[str]:
+        return self.text.split("\n")  # TOML counts lines by newlines only
+
     def line_of(self, path: str) -> int | None:
-        """Best-effort line number of a dotted key path in the text."""
-        parts = path.split(".")
-        lines = self.text.splitlines()
-        for cut in range(len(parts) - 1, -1, -1):
-            header = ".".join(parts[:cut])
-            key = parts[cut] if cut < len(parts) else None
-            start = 0
+        """Best-effort line number of a dotted key path (``a.b[2].c`` too) in the text.
+
+        The line of the longest part of the path written anywhere: under the deepest
+        ``[header]`` that starts the path, a ``key =`` (or dotted ``a.b =``) continuing it,
+        then keys of inline tables on that line; the header's own line when no key continues.
+        """
+        want = tuple(re.sub(r"(\[\d+\])+$", "", p) for p in path.split("."))
+        lines = self._lines()
+        best: tuple[int, int] | None = None  # (parts of the path matched, line index)
+        head: tuple[str, ...] = ()
+        for i, ln in enumerate(lines):
+            header = _HEADER.match(ln)
             if header:
-                pattern = re.compile(r"^\s*\[+\s*" + re.escape(header).replace(r"\.", r"\s*\.\s*")
-                                     + r"\s*\]+")
-                found = [i for i, ln in enumerate(lines) if pattern.match(ln)]
-                if not found:
-                    continue
-                start = found[0]
-            if key is None:
-                return start + 1
-            key_pattern = re.compile(r"^\s*\"?" + re.escape(key) + r"\"?\s*=")
-            inline = re.compile(r"[{,]\s*\"?" + re.escape(key) + r"\"?\s*=")
-            for i in range(start, len(lines)):
-                if i > start and lines[i].lstrip().startswith("[") and header:
+                head = _key_parts(header.group(1))
+                if want[:len(head)] == head and (best is None or len(head) > best[0]):
+                    best = (len(head), i)
+                continue
+            if want[:len(head)] != head:
+                continue
+            assign = _ASSIGN.match(ln)
+            if not assign:
+                continue
+            key = _key_parts(assign.group(1))
+            full = (*head, *key)
+            if want[:len(full)] != full:
+                continue
+            score = len(full)
+            rest = ln[assign.end():]
+            for part in want[len(full):]:
+                inline = re.search(r"[{,]\s*[\"']?" + re.escape(part) + r"[\"']?\s*=", rest)
+                if not inline:
                     break
-                if key_pattern.match(lines[i]) or inline.search(lines[i]):
-                    return i + 1
-            if header:
-                return start + 1
-        return None
+                score += 1
+                rest = rest[inline.end():]
+            if best is None or score > best[0]:
+                best = (score, i)
+        return None if best is None else best[1] + 1
+
+    def key_at(self, line: int) -> str | None:
+        """The key path written on ``line`` (1-based): its table's header and its own key."""
+        lines = self._lines()
+        if not 1 <= line <= len(lines):
+            return None
+        here = lines[line - 1]
+        header = _OPEN_HEADER.match(here)
+        if header:
+            return ".".join(_key_parts(header.group(1)))
+        head: tuple[str, ...] = ()
+        for ln in reversed(lines[:line - 1]):
+            found = _HEADER.match(ln)
+            if found:
+                head = _key_parts(found.group(1))
+                break
+        assign = _KEY_START.match(here)
+        key = _key_parts(assign.group(1)) if assign else ()
+        return ".".join((*head, *key)) or None
 
     def error(self, path: str, why: str) -> CaseError:
         """A CaseError at ``path`` with the line where it can be found."""
@@ -219,7 +311,5 @@ class Reader:
         names = tuple(known)
         if name in names:
             return name
-        close = difflib.get_close_matches(name, names, n=1)
-        hint = f"; did you mean '{close[0]}'?" if close else ""
-        listing = ", ".join(names) if len(names) <= 12 else ", ".join(names[:12]) + ", ..."
-        raise self.error(where, f"unknown {what} '{name}'{hint} (defined: {listing or 'none'})")
+        raise self.error(where, f"unknown {what} '{name}'{_did_you_mean(name, names)} "
+                                f"(defined: {_listing(names)})")
