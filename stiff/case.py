@@ -16,7 +16,7 @@ from typing import Any, Literal
 from stiff import units
 from stiff.case_reader import Field, Reader, at_least, choice, positive
 from stiff.errors import CaseError, MaterialError, ModelError
-from stiff.material_tables import MATERIAL_KINDS
+from stiff.material_tables import MATERIAL_KINDS, MaterialKind
 from stiff.materials import MaterialLibrary, load_library
 from stiff.printed_sections import PrintSettings
 from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS
@@ -374,6 +374,24 @@ def _library(reader: Reader, top: Mapping[str, Any], lib: MaterialLibrary,
     return lib
 
 
+def _material(reader: Reader, where: str, name: str, lib: MaterialLibrary,
+              kinds: tuple[MaterialKind, ...], what: str) -> str:
+    """``name`` when it is a material of one of ``kinds``; a material of another kind is named
+    as such, an unknown one gets the list of known ones."""
+    known = tuple(n for k in kinds for n in lib.names(k))
+    if name not in known:
+        other = next((k for k in MATERIAL_KINDS if k not in kinds and name in lib.names(k)),
+                     None)
+        if other is not None:
+            raise reader.error(where, f"'{name}' is {_a(other)} material, not {_a(what)} "
+                                      f"({what}s: {', '.join(known)})")
+    return reader.known(where, name, known, what)
+
+
+def _a(word: str) -> str:
+    return f"{'an' if word[0] in 'aeiou' else 'a'} {word}"
+
+
 def _nodes(reader: Reader, data: object) -> dict[str, tuple[float, float]]:
     out: dict[str, tuple[float, float]] = {}
     for name, entry in reader.named_tables("nodes", data).items():
@@ -390,8 +408,8 @@ def _section(
     reader: Reader, where: str, values: Mapping[str, Any], lib: MaterialLibrary
 ) -> Section:
     """A printed section from checked values (material known, sizes consistent)."""
-    name = reader.known(f"{where}.material", values["material"], lib.names("printed"),
-                        "printed material")
+    name = _material(reader, f"{where}.material", values["material"], lib, ("printed",),
+                     "printed material")
     shape = values.get("shape", "round" if "diameter_mm" in values else "rectangle")
     if shape == "round":
         if "diameter_mm" not in values:
@@ -475,8 +493,8 @@ def _tube_part(reader: Reader, where: str, name: str, v: Mapping[str, Any],
                lib: MaterialLibrary) -> Part:
     if "material" not in v:
         raise reader.error(where, "missing required key 'material' (the tube material)")
-    known = lib.names("tube") + lib.names("metal")
-    material = reader.known(f"{where}.material", v["material"], known, "tube material")
+    material = _material(reader, f"{where}.material", v["material"], lib, ("tube", "metal"),
+                         "tube material")
     if "size" in v:
         size_name = reader.known(f"{where}.size", v["size"],
                                  tuple(s.name for s in lib.tube_sizes), "tube size")
@@ -549,8 +567,9 @@ def _joints(reader: Reader, data: object, nodes: Mapping[str, tuple[float, float
             raise reader.error(where, f"a {kind} joint needs 'pin_diameter_mm'")
         pin_material = None
         if kind != "fixed":
-            pin_material = reader.known(f"{where}.pin_material", v.get("pin_material",
-                                        "steel-8.8"), lib.names("metal"), "pin material")
+            pin_material = _material(reader, f"{where}.pin_material",
+                                     v.get("pin_material", "steel-8.8"), lib, ("metal",),
+                                     "pin material")
         actuator = None
         if kind == "driven":
             if len(joined) != 2:
@@ -570,11 +589,12 @@ def _joints(reader: Reader, data: object, nodes: Mapping[str, tuple[float, float
             bearing_length_mm=v.get("bearing_length_mm"), actuator=actuator,
             lugs=_lugs(reader, f"{where}.lugs", v.get("lugs", {}), joined, printed, pin),
             socket=socket, measured=_measured(measured)))
-    driven = [j.actuator for j in out if j.actuator]
     for a in actuators:
-        if driven.count(a) != 1:
+        driven = [j.name for j in out if j.actuator == a]
+        if len(driven) != 1:
+            listing = f": {', '.join(driven)}" if driven else ""
             raise reader.error(f"actuators.{a}", f"actuator '{a}' must drive exactly one joint "
-                                                 f"(it drives {driven.count(a)})")
+                                                 f"(it drives {len(driven)}{listing})")
     return tuple(out)
 
 
@@ -605,8 +625,8 @@ def _socket(reader: Reader, where: str, data: object, kind: str, joined: tuple[s
         raise reader.error(spot, "a socket needs a printed part in the joint to hold the tube")
     adhesive = None
     if v["fixing"] == "bonded":
-        adhesive = reader.known(f"{spot}.adhesive", v.get("adhesive", "epoxy"),
-                                lib.names("adhesive"), "adhesive")
+        adhesive = _material(reader, f"{spot}.adhesive", v.get("adhesive", "epoxy"), lib,
+                             ("adhesive",), "adhesive")
     return Socket(tube=tube, printed=printed[0], engagement_mm=v["engagement_mm"],
                   fixing=v["fixing"], adhesive=adhesive, bondline_mm=v.get("bondline_mm"),
                   clamp_force_N=v.get("clamp_force_N"), friction=v.get("friction"))
@@ -631,7 +651,8 @@ def _actuators(reader: Reader, data: Mapping[str, Any], joints: tuple[Joint, ...
                                       "'proportional_band_deg' (to estimate it)")
         lo, hi = v.get("angle_min_deg"), v.get("angle_max_deg")
         if lo is not None and hi is not None and not lo < hi:
-            raise reader.error(f"{where}.angle_max_deg", "must exceed angle_min_deg")
+            raise reader.error(f"{where}.angle_max_deg", f"must exceed angle_min_deg ({lo:g}°), "
+                                                         f"got {hi:g}°")
         joint = next(j.name for j in joints if j.actuator == name)
         out.append(Actuator(
             name=name, joint=joint, stall_torque_Nmm=stall, stiffness_Nmm_per_rad=k,
@@ -695,8 +716,10 @@ def _check_connected(reader: Reader, parts: tuple[Part, ...], joints: tuple[Join
                 changed = True
     loose = [p.name for p in parts if p.name not in reached]
     if loose:
-        raise reader.error("joints", f"the structure is in pieces: {', '.join(loose)} "
-                                     "not joined to the body through any joint")
+        verb = "is" if len(loose) == 1 else "are"
+        raise reader.error(f"parts.{loose[0]}", f"the structure is in pieces: "
+                                                f"{', '.join(loose)} {verb} not joined to the "
+                                                "body through any joint")
 
 
 def _pose(reader: Reader, data: object, actuators: tuple[Actuator, ...]
@@ -718,7 +741,10 @@ def _pose(reader: Reader, data: object, actuators: tuple[Actuator, ...]
         rad = units.deg_to_rad(deg)
         if (a.angle_min_rad is not None and rad < a.angle_min_rad - 1e-12) or (
                 a.angle_max_rad is not None and rad > a.angle_max_rad + 1e-12):
-            raise reader.error(spot, f"{deg:g}° is outside the actuator's range")
+            lo = "" if a.angle_min_rad is None else f"{units.rad_to_deg(a.angle_min_rad):g}°"
+            hi = "" if a.angle_max_rad is None else f"{units.rad_to_deg(a.angle_max_rad):g}°"
+            raise reader.error(spot, f"{deg:g}° is outside the actuator's range "
+                                     f"({lo or 'no limit'} to {hi or 'no limit'})")
         angles[name] = rad
     return angles, None
 
