@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import sys
 import typing
+import unicodedata
 from dataclasses import replace
 from pathlib import Path
 
@@ -39,12 +40,24 @@ def cli() -> None:
     """
 
 
+def one_line(text: str) -> str:
+    """``text`` on one line: line breaks and other control characters written as escapes.
+
+    Messages quote what the user wrote (a name, a key), which may hold a line break.
+    """
+    return "".join(ch if ch == "\t" or unicodedata.category(ch) not in _BREAKING
+                   else ascii(ch)[1:-1] for ch in text)
+
+
+_BREAKING = ("Cc", "Zl", "Zp")  # control characters, line and paragraph separators
+
+
 def main() -> None:
     """Console entry point: run the group and turn a StiffError into one line and an exit code."""
     try:
         code = cli.main(standalone_mode=False)
     except StiffError as err:
-        click.echo(f"stiff: error: {err}", err=True)
+        click.echo(f"stiff: error: {one_line(str(err))}", err=True)
         sys.exit(err.exit_code)
     except click.exceptions.Abort:
         click.echo("stiff: aborted", err=True)
@@ -65,7 +78,7 @@ class _InputError(click.ClickException):
     exit_code = EXIT_BAD_INPUT
 
     def __init__(self, err: StiffError) -> None:
-        super().__init__(str(err))
+        super().__init__(one_line(str(err)))
 
     def show(self, file: typing.IO[typing.Any] | None = None) -> None:
         click.echo(f"stiff: error: {self.message}", err=True)
@@ -237,7 +250,7 @@ def section(
 
 
 @cli.command()
-@click.argument("case_file", required=False, type=click.Path(path_type=Path, dir_okay=False))
+@click.argument("case_file", required=False, type=click.Path(path_type=Path))
 @click.option("--out", "out_dir", type=click.Path(path_type=Path),
               help="Folder to write results.json into (made if missing).")
 @click.option("--json", "as_json", is_flag=True, help="Print results.json to stdout instead.")
@@ -253,6 +266,8 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
     """
     path = case_file or CASES_DIR / "five_bar_leg.toml"
     try:
+        if path.is_dir():
+            raise CaseError(path, "(file)", "is a folder, not a case file")
         if not path.is_file():
             raise CaseError(path, "(file)", "no such case file")
         result = run_check(load_case(path))
