@@ -17,7 +17,6 @@ import numpy as np
 import numpy.typing as npt
 
 from stiff.errors import ModelError
-from stiff.fe.element import local_stiffness
 
 FloatArray = npt.NDArray[np.float64]
 IntArray = npt.NDArray[np.intp]
@@ -34,6 +33,20 @@ def _float(a: npt.ArrayLike) -> FloatArray:
 def _pairs(a: npt.ArrayLike) -> IntArray:
     out = np.asarray(a, dtype=np.intp).reshape(-1, 2)
     return out
+
+
+def _filled(a: npt.ArrayLike, shape: tuple[int, ...]) -> FloatArray:
+    """A new float array of ``shape`` holding ``a`` broadcast to it (ValueError if it can't)."""
+    out = np.empty(shape)
+    out[...] = a
+    return out
+
+
+def _per_item(a: npt.ArrayLike, n: int, tail: tuple[int, ...] = ()) -> FloatArray:
+    """``a`` as a new (..., n, *tail) array: scalars and per-item rows broadcast to n items."""
+    v = np.asarray(a, dtype=np.float64)
+    lead = v.shape[: v.ndim - len(tail) - 1] if v.ndim > len(tail) else ()
+    return _filled(v, (*lead, n, *tail))
 
 
 @dataclass(frozen=True)
@@ -86,25 +99,18 @@ class Beams:
         """Members from array-likes; scalars broadcast to every member."""
         conn = _pairs(nodes)
         n = conn.shape[0]
-
-        def per_member(v: npt.ArrayLike) -> FloatArray:
-            a = _float(v)
-            return np.broadcast_to(a, (*a.shape[:-1], n) if a.ndim else (n,)).copy()
-
-        ref_a = _float(ref)
-        ref_a = np.broadcast_to(ref_a, (*ref_a.shape[:-2], n, 3) if ref_a.ndim > 1 else (n, 3))
         rel = np.zeros((n, 12), bool) if releases is None else np.asarray(releases, bool)
         return Beams(
             nodes=conn,
-            E=per_member(E),
-            G=per_member(G),
-            A=per_member(A),
-            Iy=per_member(Iy),
-            Iz=per_member(Iz),
-            J=per_member(J),
-            Asy=per_member(Asy),
-            Asz=per_member(Asz),
-            ref=ref_a.copy(),
+            E=_per_item(E, n),
+            G=_per_item(G, n),
+            A=_per_item(A, n),
+            Iy=_per_item(Iy, n),
+            Iz=_per_item(Iz, n),
+            J=_per_item(J, n),
+            Asy=_per_item(Asy, n),
+            Asz=_per_item(Asz, n),
+            ref=_per_item(ref, n, (3,)),
             releases=rel.reshape(n, 12),
             names=names if names is not None else tuple(f"member {i}" for i in range(n)),
         )
@@ -112,7 +118,9 @@ class Beams:
     @staticmethod
     def none() -> Beams:
         """No members."""
-        return Beams.make(np.zeros((0, 2)), E=1.0, G=1.0, A=1.0, Iy=1.0, Iz=1.0, J=1.0)
+        e = np.zeros(0)
+        return Beams(nodes=np.zeros((0, 2), np.intp), E=e, G=e, A=e, Iy=e, Iz=e, J=e, Asy=e,
+                     Asz=e, ref=np.zeros((0, 3)), releases=np.zeros((0, 12), bool), names=())
 
     @property
     def count(self) -> int:
@@ -153,21 +161,18 @@ class Connectors:
         """Connectors; ``frame`` defaults to the global axes."""
         conn = _pairs(nodes)
         n = conn.shape[0]
-        k = _float(stiffness)
-        k = np.broadcast_to(k, (*k.shape[:-2], n, 6) if k.ndim > 1 else (n, 6)).copy()
-        f = np.eye(3) if frame is None else _float(frame)
-        f = np.broadcast_to(f, (*f.shape[:-3], n, 3, 3) if f.ndim > 2 else (n, 3, 3)).copy()
         return Connectors(
             nodes=conn,
-            stiffness=k,
-            frame=f,
+            stiffness=_per_item(stiffness, n, (6,)),
+            frame=_per_item(np.eye(3) if frame is None else frame, n, (3, 3)),
             names=names if names is not None else tuple(f"connector {i}" for i in range(n)),
         )
 
     @staticmethod
     def none() -> Connectors:
         """No connectors."""
-        return Connectors.make(np.zeros((0, 2)), np.zeros((0, 6)))
+        return Connectors(nodes=np.zeros((0, 2), np.intp), stiffness=np.zeros((0, 6)),
+                          frame=np.zeros((0, 3, 3)), names=())
 
     @property
     def count(self) -> int:
@@ -209,22 +214,18 @@ class Springs:
         """Springs; scalars broadcast to every spring."""
         conn = _pairs(nodes)
         n = conn.shape[0]
-
-        def per_spring(v: npt.ArrayLike) -> FloatArray:
-            a = _float(v)
-            return np.broadcast_to(a, (*a.shape[:-1], n) if a.ndim else (n,)).copy()
-
         return Springs(
             nodes=conn,
-            rate=per_spring(rate),
-            tension=per_spring(tension),
+            rate=_per_item(rate, n),
+            tension=_per_item(tension, n),
             names=names if names is not None else tuple(f"spring {i}" for i in range(n)),
         )
 
     @staticmethod
     def none() -> Springs:
         """No springs."""
-        return Springs.make(np.zeros((0, 2)), np.zeros(0))
+        return Springs(nodes=np.zeros((0, 2), np.intp), rate=np.zeros(0), tension=np.zeros(0),
+                       names=())
 
     @property
     def count(self) -> int:
@@ -292,35 +293,92 @@ class FrameModel:
     @property
     def batch_shape(self) -> tuple[int, ...]:
         """Leading batch shape shared by all batched arrays (() for one model)."""
-        arrays = [
-            self.xyz[..., 0, 0],
-            self.beams.E[..., 0] if self.beams.count else np.zeros(()),
-            self.connectors.stiffness[..., 0, 0] if self.connectors.count else np.zeros(()),
-            self.springs.rate[..., 0] if self.springs.count else np.zeros(()),
-            self.ground[..., 0, 0],
-        ]
-        return tuple(np.broadcast_shapes(*(a.shape for a in arrays)))
+        shapes = {self.xyz.shape[:-2], self.ground.shape[:-2]}
+        if self.beams.count:
+            shapes.add(self.beams.E.shape[:-1])
+        if self.connectors.count:
+            shapes.add(self.connectors.stiffness.shape[:-2])
+        if self.springs.count:
+            shapes.add(self.springs.rate.shape[:-1])
+        if len(shapes) == 1:
+            return shapes.pop()
+        return tuple(np.broadcast_shapes(*shapes))
 
     def dof_label(self, dof: int) -> str:
         """'node name ux' for a global DOF index."""
         return f"{self.node_names[dof // DOFS_PER_NODE]} {DOF_NAMES[dof % DOFS_PER_NODE]}"
 
 
-def _positive(name: str, what: str, values: FloatArray, labels: tuple[str, ...]) -> None:
+def _positive(what: str, values: FloatArray, labels: tuple[str, ...]) -> None:
     """Raise unless every value is a positive number (``inf`` allowed)."""
     bad = ~(values > 0.0)
     if bad.any():
         i = int(np.argwhere(bad)[0][-1])
         raise ModelError(f"{labels[i]}: {what} must be a positive number, got {values[bad][0]!r}")
-    del name
 
 
 def _check_nodes(kind: str, conn: IntArray, n_nodes: int, labels: tuple[str, ...]) -> None:
+    if conn.size and conn.min() >= 0 and conn.max() < n_nodes:
+        return
     bad = (conn < 0) | (conn >= n_nodes)
     if bad.any():
         i = int(np.argwhere(bad)[0][0])
         raise ModelError(f"{labels[i]}: {kind} names node index {conn[i].tolist()}, "
                          f"the model has {n_nodes} nodes")
+
+
+#: Section values of a member, with how a message names them; the first six must be finite.
+_SECTION = (("E", "E [MPa]"), ("G", "G [MPa]"), ("A", "area [mm²]"), ("Iy", "Iy [mm⁴]"),
+            ("Iz", "Iz [mm⁴]"), ("J", "J [mm⁴]"), ("Asy", "shear area Asy [mm²]"),
+            ("Asz", "shear area Asz [mm²]"))
+
+
+def _check_sections(b: Beams) -> None:
+    """Every section value a positive number, the first six finite too."""
+    values = [getattr(b, attr).reshape(-1) for attr, _ in _SECTION]
+    every = np.concatenate(values)
+    finite = sum(v.size for v in values[:6])
+    if every.min() > 0.0 and every[:finite].max() < math.inf:
+        return
+    for attr, what in _SECTION:
+        v = getattr(b, attr)
+        if attr in ("E", "G", "A", "Iy", "Iz", "J") and np.isinf(v).any():
+            i = int(np.argwhere(np.isinf(v))[0][-1])
+            raise ModelError(f"{b.names[i]}: {what} must be finite")
+        _positive(what, v, b.names)
+
+
+def _check_geometry(model: FrameModel) -> None:
+    """No member of zero length, none along its reference vector.
+
+    With d the member's vector and r its reference vector, the Gram matrix of the pair gives
+    |d|² and the sine of their angle through |d × r|² = |d|²|r|² − (d·r)², so one small matmul
+    covers both checks. Rounding in that difference is ~1e-16 of |d|²|r|², far below the
+    1e-12 (sine 1e-6) at which the reference vector counts as parallel.
+    """
+    b = model.beams
+    ends = model.xyz[..., b.nodes, :]
+    d = ends[..., 1, :] - ends[..., 0, :]
+    ref = b.ref if b.ref.shape == d.shape else np.broadcast_to(b.ref, d.shape)
+    pair = np.stack((d, ref), axis=-2)
+    gram = (pair @ np.swapaxes(pair, -1, -2)).reshape(*d.shape[:-1], 4)
+    dd, rr = gram[..., 0], gram[..., 3]
+    xyz = model.xyz.reshape(-1, 3)
+    # the model's size: the largest extent along an axis (at most the spread of all coordinates)
+    if dd.min() > (1e-9 * max(float(xyz.max() - xyz.min()), 1.0)) ** 2:
+        short = np.zeros(dd.shape, bool)
+    else:
+        scale = max(float(np.ptp(xyz, axis=0).max()), 1.0)
+        short = ~(1e-9 * scale < np.sqrt(dd))
+    if short.any():
+        i = int(np.argwhere(short)[0][-1])
+        raise ModelError(f"{b.names[i]}: zero-length member (both ends at the same point)")
+    cross2 = dd * rr - gram[..., 1] * gram[..., 2]
+    parallel = ~(cross2 > 1e-12 * (dd * rr))
+    if parallel.any():
+        i = int(np.argwhere(parallel)[0][-1])
+        raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
+                         "(or zero), so its local z axis is undefined")
 
 
 def _check_beams(model: FrameModel) -> None:
@@ -329,55 +387,58 @@ def _check_beams(model: FrameModel) -> None:
         return
     _check_nodes("member", b.nodes, model.n_nodes, b.names)
     _check_releases(b)
-    for attr, what in (("E", "E [MPa]"), ("G", "G [MPa]"), ("A", "area [mm²]"),
-                       ("Iy", "Iy [mm⁴]"), ("Iz", "Iz [mm⁴]"), ("J", "J [mm⁴]"),
-                       ("Asy", "shear area Asy [mm²]"), ("Asz", "shear area Asz [mm²]")):
-        values = getattr(b, attr)
-        if attr in ("E", "G", "A", "Iy", "Iz", "J") and np.isinf(values).any():
-            i = int(np.argwhere(np.isinf(values))[0][-1])
-            raise ModelError(f"{b.names[i]}: {what} must be finite")
-        _positive(attr, what, values, b.names)
-    d = model.xyz[..., b.nodes[:, 1], :] - model.xyz[..., b.nodes[:, 0], :]
-    L = np.linalg.norm(d, axis=-1)
-    scale = max(float(np.ptp(model.xyz.reshape(-1, 3), axis=0).max()), 1.0)
-    short = ~(1e-9 * scale < L)
-    if short.any():
-        i = int(np.argwhere(short)[0][-1])
-        raise ModelError(f"{b.names[i]}: zero-length member (both ends at the same point)")
-    ref = np.broadcast_to(b.ref, d.shape)
-    sin = np.linalg.norm(np.cross(d / L[..., None], ref), axis=-1) / np.maximum(
-        np.linalg.norm(ref, axis=-1), 1e-300)
-    parallel = ~(sin > 1e-6)
-    if parallel.any():
-        i = int(np.argwhere(parallel)[0][-1])
-        raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
-                         "(or zero), so its local z axis is undefined")
+    _check_sections(b)
+    _check_geometry(model)
 
 
 _END_DOFS = ("ux1", "uy1", "uz1", "rx1", "ry1", "rz1", "ux2", "uy2", "uz2", "rx2", "ry2", "rz2")
+
+
+def _release_sets() -> tuple[tuple[int, ...], ...]:
+    """Release sets (member DOF indices) that leave a member free to move as a rigid body.
+
+    The local stiffness splits into four independent blocks: axial (u1, u2), torsion
+    (θx1, θx2), and bending in the x-y plane (v1, θz1, v2, θz2) and in the x-z plane
+    (w1, θy1, w2, θy2). The released part of a block is singular, so it cannot be condensed,
+    exactly when the block's rigid-body motions survive with the released DOFs free:
+
+    * axial, torsion: released at both ends (the member slides or spins);
+    * bending: the released set contains {v1, v2} (it shears across: a rigid translation),
+      {θ1, v2, θ2} or {v1, θ1, θ2} (it turns as a rigid body about end 1 or end 2).
+
+    Why exactly these: a block k is positive semi-definite, so its released part k_rr is
+    singular if and only if some rigid-body motion of the block is zero at every kept DOF.
+    A bending block's rigid motions are (a, b, a + bL, b) over (v1, θ1, v2, θ2) (translation
+    a, rotation b about end 1); those that vanish outside a set have the supports {v1, v2}
+    (b = 0), {θ1, v2, θ2} (a = 0) and {v1, θ1, θ2} (a = −bL), or all four DOFs.
+    """
+    sets: list[tuple[int, ...]] = [(0, 6), (3, 9)]
+    for v1, t1, v2, t2 in ((1, 5, 7, 11), (2, 4, 8, 10)):
+        sets += [(v1, v2), (t1, v2, t2), (v1, t1, t2)]
+    return tuple(sets)
+
+
+#: Bit masks (bit j is member DOF j) of the release sets that make a member a mechanism.
+_SINGULAR_RELEASES = np.array([sum(1 << j for j in s) for s in _release_sets()], np.int64)
+_BITS = 1 << np.arange(12, dtype=np.int64)
 
 
 def _check_releases(b: Beams) -> None:
     """A release pattern must leave the member able to carry a rigid-body motion's load.
 
     Releasing, say, torsion at both ends lets the member spin freely about its axis: the
-    released block of its stiffness is singular and cannot be condensed. Whether it is depends
-    only on the pattern, so each distinct pattern is tried on a unit member.
+    released block of its stiffness is singular and cannot be condensed. Whether it is
+    depends only on which DOFs are released (see :func:`_release_sets`).
     """
-    if b.count == 0 or not b.releases.any():
+    if not b.releases.any():
         return
-    one = np.ones(1)
-    k = local_stiffness(one, one, one, one, one, one, one, one, one)[0]
-    for pattern in np.unique(b.releases, axis=0):
-        r = np.flatnonzero(pattern)
-        if r.size == 0:
-            continue
-        w = np.linalg.eigvalsh(k[np.ix_(r, r)])
-        if w[0] <= 1e-9 * max(w[-1], 1e-300):
-            i = int(np.flatnonzero((b.releases == pattern).all(axis=1))[0])
-            released = ", ".join(_END_DOFS[j] for j in r)
-            raise ModelError(f"{b.names[i]}: releases {released} leave it free to move as a "
-                             "rigid body (e.g. torsion released at both ends); keep one end")
+    code = b.releases @ _BITS
+    singular = (code[:, None] & _SINGULAR_RELEASES) == _SINGULAR_RELEASES
+    if singular.any():
+        i = int(np.argwhere(singular)[0][0])
+        released = ", ".join(_END_DOFS[j] for j in np.flatnonzero(b.releases[i]))
+        raise ModelError(f"{b.names[i]}: releases {released} leave it free to move as a "
+                         "rigid body (e.g. torsion released at both ends); keep one end")
 
 
 def _check_connectors(model: FrameModel) -> None:
@@ -408,7 +469,7 @@ def _check_springs(model: FrameModel) -> None:
     if s.count == 0:
         return
     _check_nodes("spring", s.nodes, model.n_nodes, s.names)
-    _positive("rate", "rate [N/mm]", s.rate, s.names)
+    _positive("rate [N/mm]", s.rate, s.names)
     if np.isinf(s.rate).any() or np.isnan(s.tension).any() or np.isinf(s.tension).any():
         raise ModelError("springs: rate and tension must be finite numbers")
     d = model.xyz[..., s.nodes[:, 1], :] - model.xyz[..., s.nodes[:, 0], :]
@@ -432,7 +493,8 @@ def validate(model: FrameModel) -> None:
         raise ModelError(f"fixed DOFs must have shape ({n}, 6), got {model.fixed.shape}")
     if model.ground.shape[-2:] != (n, 6):
         raise ModelError(f"ground springs must have shape (..., {n}, 6)")
-    if (~(model.ground >= 0.0)).any() or np.isinf(model.ground).any():
+    g = model.ground
+    if g.size and not (g.min() >= 0.0 and g.max() < math.inf):  # a NaN fails both
         raise ModelError("ground springs must be finite and ≥ 0 (use a fixed DOF for rigid)")
     _check_beams(model)
     _check_connectors(model)
