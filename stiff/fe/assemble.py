@@ -2,7 +2,9 @@
 
 All element matrices of one kind are built as one (..., n, k, k) array and summed into the
 global matrix by one ``bincount`` over every entry of every model of a batch, rather than a
-Python loop over elements.
+Python loop over elements. Where each entry lands is given by a position for every DOF: the
+identity for the full stiffness, or free DOFs first and supported ones after for a solve,
+which keeps only the columns of free DOFs (see :func:`assemble_matrix`).
 """
 
 from __future__ import annotations
@@ -16,6 +18,7 @@ from stiff.fe import element
 from stiff.fe.model import DOFS_PER_NODE, FloatArray, FrameModel, IntArray
 
 _TRANSLATIONS = np.arange(3)
+_ALL = np.arange(6)
 
 
 def element_dofs(nodes: IntArray, per_node: IntArray) -> IntArray:
@@ -26,12 +29,12 @@ def element_dofs(nodes: IntArray, per_node: IntArray) -> IntArray:
 
 def beam_dofs(model: FrameModel) -> IntArray:
     """(n_beams, 12) global DOFs of each member."""
-    return element_dofs(model.beams.nodes, np.arange(6))
+    return element_dofs(model.beams.nodes, _ALL)
 
 
 def connector_dofs(model: FrameModel) -> IntArray:
     """(n_connectors, 12) global DOFs of each connector."""
-    return element_dofs(model.connectors.nodes, np.arange(6))
+    return element_dofs(model.connectors.nodes, _ALL)
 
 
 def spring_dofs(model: FrameModel) -> IntArray:
@@ -46,30 +49,60 @@ class BeamMatrices:
     R: FloatArray  # (..., n, 3, 3)
     L: FloatArray  # (..., n)
     k_local: FloatArray  # (..., n, 12, 12), releases condensed out
-    S: FloatArray  # (..., n, 12, 12), condensation maps
+    condensed: IntArray  # (m,) the members with releases
+    S: FloatArray  # (..., m, 12, 12), their condensation maps u = S u_kept
 
     @property
     def T(self) -> FloatArray:
         """(..., n, 12, 12) local-from-global transformation."""
         return element.block_rotation(self.R, 4)
 
+    def condense(self, k: FloatArray, cases: bool = False) -> FloatArray:
+        """Sᵀ k S at the released members of local matrices k (..., [c,] n, 12, 12).
+
+        ``cases``: k has a load-case axis before the member axis.
+        """
+        if not self.condensed.size:
+            return k
+        S = self.S[..., None, :, :, :] if cases else self.S
+        out = k.copy()
+        out[..., self.condensed, :, :] = (
+            np.swapaxes(S, -1, -2) @ k[..., self.condensed, :, :] @ S)
+        return out
+
 
 def beam_matrices(model: FrameModel) -> BeamMatrices:
     """Rotation, length and condensed local stiffness of every member."""
     b = model.beams
-    xyz = model.xyz
-    R, L = element.member_axes(xyz[..., b.nodes[:, 0], :], xyz[..., b.nodes[:, 1], :], b.ref)
+    ends = model.xyz[..., b.nodes, :]
+    R, L = element.member_axes(ends[..., 0, :], ends[..., 1, :], b.ref)
     k = element.local_stiffness(b.E, b.G, b.A, b.Iy, b.Iz, b.J, b.Asy, b.Asz, L)
-    k_c, S = element.condense(k, b.releases)
-    return BeamMatrices(R=R, L=L, k_local=k_c, S=S)
+    condensed = np.flatnonzero(b.releases.any(axis=1))
+    if condensed.size:
+        k_c, S = element.condensation(k[..., condensed, :, :], b.releases[condensed])
+        k[..., condensed, :, :] = k_c  # k is this function's own new array
+    else:
+        S = np.zeros((*k.shape[:-3], 0, 12, 12))
+    return BeamMatrices(R=R, L=L, k_local=k, condensed=condensed, S=S)
+
+
+def beam_global(mats: BeamMatrices, k_local: FloatArray | None = None) -> FloatArray:
+    """(..., n, 144) global member matrices in the block layout of ``element.global_blocks``
+    (rows ``element.BLOCK_ROWS``, columns ``element.BLOCK_COLS`` of the member's DOFs), for
+    the condensed stiffness or for other local matrices ``k_local`` (..., n, 12, 12)."""
+    k = mats.k_local if k_local is None else k_local
+    blocks = element.global_blocks(k, mats.R)
+    return blocks.reshape(*blocks.shape[:-2], 144)
 
 
 def beam_geometric(model: FrameModel, mats: BeamMatrices, N: FloatArray) -> FloatArray:
-    """Global geometric stiffness (..., n, 12, 12) of members under axial forces N [N]."""
+    """(..., n, 144) global geometric stiffness of members under axial forces N [N], in the
+    block layout of :func:`beam_global`."""
     b = model.beams
     kg = element.local_geometric_stiffness(N, b.A, b.Iy, b.Iz, mats.L)
-    kg = np.swapaxes(mats.S, -1, -2) @ kg @ mats.S
-    return element.to_global(kg, mats.R)
+    R = np.broadcast_to(mats.R, (*kg.shape[:-2], 3, 3))
+    blocks = element.global_blocks(mats.condense(kg), R)
+    return blocks.reshape(*blocks.shape[:-2], 144)
 
 
 def connector_kinematics(model: FrameModel) -> FloatArray:
@@ -129,38 +162,83 @@ def spring_geometric(model: FrameModel, tension: FloatArray) -> FloatArray:
     )
 
 
-def _targets(n_dofs: int, dofs: IntArray) -> IntArray:
-    """Flat global-matrix positions (n·k·k,) of the entries of element matrices."""
+#: An element matrix to assemble: values (..., n, e) and the global DOFs (n, e) of the row
+#: and the column of each of its e entries.
+Part = tuple[FloatArray, IntArray, IntArray]
+
+
+def square_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
+    """Row and column DOFs (n, k·k) of the entries of (n, k, k) matrices in C order."""
     k = dofs.shape[1]
-    rows = np.repeat(dofs, k, axis=1).reshape(-1)
-    cols = np.tile(dofs, (1, k)).reshape(-1)
-    out: IntArray = rows * n_dofs + cols
-    return out
+    return np.repeat(dofs, k, axis=1), np.tile(dofs, (1, k))
+
+
+def element_parts(model: FrameModel, mats: BeamMatrices | None) -> list[Part]:
+    """The elastic element matrices of a model (members, elastic connectors, springs)."""
+    parts: list[Part] = []
+    if model.beams.count and mats is not None:
+        dofs = beam_dofs(model)
+        parts.append((beam_global(mats), dofs[:, element.BLOCK_ROWS],
+                      dofs[:, element.BLOCK_COLS]))
+    if model.connectors.count:
+        k = connector_stiffness(model, connector_kinematics(model))
+        parts.append((k.reshape(*k.shape[:-2], 144), *square_entries(connector_dofs(model))))
+    if model.springs.count:
+        k = spring_stiffness(model, model.springs.tension)
+        parts.append((k.reshape(*k.shape[:-2], 36), *square_entries(spring_dofs(model))))
+    return parts
 
 
 def assemble_matrix(
-    n_dofs: int, batch: tuple[int, ...], parts: list[tuple[FloatArray, IntArray]],
+    position: IntArray, n_cols: int, batch: tuple[int, ...], parts: list[Part],
     diagonal: FloatArray | None = None,
 ) -> FloatArray:
-    """Σ element matrices (..., n, k, k) at their DOFs (n, k), plus a diagonal (..., n_dofs).
+    """Σ element matrices, plus a diagonal (..., n_dofs), as (..., n_dofs, n_cols) matrices.
 
-    One ``bincount`` over every entry of every element of every model in the batch.
+    The entry at DOFs (r, c) lands at row ``position[r]`` and column ``position[c]``, and is
+    dropped when that column is ``n_cols`` or more: with ``position`` the identity this is
+    the full matrix; with free DOFs placed first and ``n_cols`` free DOFs, it is the columns
+    of the free DOFs, whose first ``n_cols`` rows are the free-free block and the others the
+    rows of the supports. One ``bincount`` over every entry of every model in the batch.
     """
+    n_rows = position.size
     size = int(np.prod(batch, dtype=np.int64))
-    targets = [_targets(n_dofs, dofs) for _, dofs in parts if dofs.shape[0]]
-    weights = [np.broadcast_to(m, (*batch, *m.shape[-3:])).reshape(size, -1)
-               for m, dofs in parts if dofs.shape[0]]
-    if diagonal is not None:
-        targets.append(np.arange(n_dofs) * (n_dofs + 1))
-        weights.append(np.broadcast_to(diagonal, (*batch, n_dofs)).reshape(size, n_dofs))
+    targets, weights = [], []
+    for values, rows, cols in parts:
+        if not rows.size:
+            continue
+        col = position[cols].reshape(-1)
+        target = position[rows].reshape(-1) * n_cols + col
+        w = values if values.shape[:-2] == batch else np.broadcast_to(
+            values, (*batch, *values.shape[-2:]))
+        w = w.reshape(size, -1)
+        if n_cols < n_rows:
+            keep = np.flatnonzero(col < n_cols)
+            target, w = target[keep], w[:, keep]
+        targets.append(target)
+        weights.append(w)
+    bins = n_rows * n_cols
     if not targets:
-        return np.zeros((*batch, n_dofs, n_dofs))
-    target = np.concatenate(targets)
-    offsets = np.arange(size, dtype=np.intp)[:, None] * (n_dofs * n_dofs)
-    flat = np.bincount((target[None, :] + offsets).reshape(-1),
-                       weights=np.concatenate(weights, axis=1).reshape(-1),
-                       minlength=size * n_dofs * n_dofs)
-    return np.asarray(flat, dtype=np.float64).reshape(*batch, n_dofs, n_dofs)
+        flat = np.zeros((size, bins))
+    else:
+        target = targets[0] if len(targets) == 1 else np.concatenate(targets)
+        weight = weights[0] if len(weights) == 1 else np.concatenate(weights, axis=1)
+        if size > 1:  # model i's entries go to bins i·bins ... (i + 1)·bins - 1
+            target = (target[None, :] + np.arange(0, size * bins, bins)[:, None]).reshape(-1)
+        flat = np.bincount(target, weights=weight.reshape(-1), minlength=size * bins).astype(
+            np.float64, copy=False).reshape(size, bins)
+    if diagonal is not None:
+        dofs = np.flatnonzero(position < n_cols)
+        where = position[dofs] * (n_cols + 1)
+        diag = diagonal if diagonal.shape[:-1] == batch else np.broadcast_to(
+            diagonal, (*batch, diagonal.shape[-1]))
+        flat[:, where] += diag.reshape(size, -1)[:, dofs]
+    return flat.reshape(*batch, n_rows, n_cols)
+
+
+def ground_diagonal(model: FrameModel) -> FloatArray:
+    """(..., n_dofs) springs to ground on the diagonal of the stiffness."""
+    return model.ground.reshape(*model.ground.shape[:-2], model.n_dofs)
 
 
 def global_stiffness(model: FrameModel, mats: BeamMatrices | None = None) -> FloatArray:
@@ -168,17 +246,19 @@ def global_stiffness(model: FrameModel, mats: BeamMatrices | None = None) -> Flo
 
     Rigid connector components are not in it: they are constraints (see ``reduce``).
     """
-    parts: list[tuple[FloatArray, IntArray]] = []
     if model.beams.count:
         mats = mats or beam_matrices(model)
-        parts.append((element.to_global(mats.k_local, mats.R), beam_dofs(model)))
-    if model.connectors.count:
-        G = connector_kinematics(model)
-        parts.append((connector_stiffness(model, G), connector_dofs(model)))
-    if model.springs.count:
-        parts.append((spring_stiffness(model, model.springs.tension), spring_dofs(model)))
-    ground = model.ground.reshape(*model.ground.shape[:-2], model.n_dofs)
-    return assemble_matrix(model.n_dofs, model.batch_shape, parts, ground)
+    return assemble_matrix(np.arange(model.n_dofs), model.n_dofs, model.batch_shape,
+                           element_parts(model, mats), ground_diagonal(model))
+
+
+def free_columns(
+    model: FrameModel, mats: BeamMatrices | None, position: IntArray, n_free: int
+) -> FloatArray:
+    """(..., n_dofs, n_free) columns of the stiffness at the free DOFs, rows in the order of
+    ``position`` (free DOFs first): the free-free block, then the rows of the supports."""
+    return assemble_matrix(position, n_free, model.batch_shape, element_parts(model, mats),
+                           ground_diagonal(model))
 
 
 def preload_loads(model: FrameModel) -> FloatArray:

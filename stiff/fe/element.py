@@ -39,6 +39,11 @@ functions (McGuire, Gallagher & Ziemian 2nd ed., Eq. 9.19), x-y block over (v1, 
              [ L/10, -L²/30, -L/10, 2L²/15 ]]
 
 with the same sign flip for x-z, and torsion N (Iy + Iz) / (A L) · [[1, -1], [-1, 1]].
+
+How the matrices are built: each is linear in a few coefficients per member, so a (..., n, m)
+coefficient array times a constant (m, 144) basis (the matrices above with one coefficient set
+to 1) gives every member of every model in one product. Rotation into global axes uses the
+structure of these matrices (see :func:`global_blocks`).
 """
 
 from __future__ import annotations
@@ -48,6 +53,7 @@ import numpy.typing as npt
 
 FloatArray = npt.NDArray[np.float64]
 BoolArray = npt.NDArray[np.bool_]
+IntArray = npt.NDArray[np.intp]
 
 # Positions of the bending DOFs inside the 12-vector.
 _XY = np.array([1, 5, 7, 11])  # v1, θz1, v2, θz2
@@ -55,25 +61,91 @@ _XZ = np.array([2, 4, 8, 10])  # w1, θy1, w2, θy2
 _AX = np.array([0, 6])  # u1, u2
 _TO = np.array([3, 9])  # θx1, θx2
 _XZ_SIGN = np.array([1.0, -1.0, 1.0, -1.0])
+_PAIR = np.array([[1.0, -1.0], [-1.0, 1.0]])
 
 
-def _bending_block(EI: FloatArray, L: FloatArray, phi: FloatArray) -> FloatArray:
-    """The 4x4 x-y bending block of the Timoshenko beam, shape (..., 4, 4)."""
+def _frozen(a: npt.ArrayLike) -> FloatArray:
+    out = np.array(a, dtype=np.float64)
+    out.flags.writeable = False
+    return out
+
+
+def _basis(blocks: list[list[tuple[npt.NDArray[np.intp], FloatArray]]]) -> FloatArray:
+    """(m, 144) basis: row c is the 12x12 matrix of coefficient c, its (idx, block) pairs."""
+    out = np.zeros((len(blocks), 12, 12))
+    for c, parts in enumerate(blocks):
+        for idx, block in parts:
+            out[c][np.ix_(idx, idx)] += block
+    return _frozen(out.reshape(len(blocks), 144))
+
+
+def _bending(entries: list[list[float]]) -> FloatArray:
+    return np.array(entries, dtype=np.float64)
+
+
+_FLIP = np.outer(_XZ_SIGN, _XZ_SIGN)
+# The x-y bending block over (v1, θz1, v2, θz2) is c·(12 P + 6L Q + L² (R4 + Φ R1)) with
+# c = E Iz / ((1 + Φ) L³); as coefficients c, c L, c L², c Φ L² of these unit patterns:
+_B12 = _bending([[12, 0, -12, 0], [0, 0, 0, 0], [-12, 0, 12, 0], [0, 0, 0, 0]])
+_B6 = _bending([[0, 6, 0, 6], [6, 0, -6, 0], [0, -6, 0, -6], [6, 0, -6, 0]])
+_B42 = _bending([[0, 0, 0, 0], [0, 4, 0, 2], [0, 0, 0, 0], [0, 2, 0, 4]])
+_BPHI = _bending([[0, 0, 0, 0], [0, 1, 0, -1], [0, 0, 0, 0], [0, -1, 0, 1]])
+
+#: Basis of :func:`local_stiffness` over the coefficients of :func:`stiffness_coefficients`.
+STIFFNESS_BASIS = _basis(
+    [[(_AX, _PAIR)], [(_TO, _PAIR)]]
+    + [[(_XY, b)] for b in (_B12, _B6, _B42, _BPHI)]
+    + [[(_XZ, b * _FLIP)] for b in (_B12, _B6, _B42, _BPHI)]
+)
+
+# The geometric x-y block is N/L·(6/5 P) + N·(1/10 Q) + N L·(2/15, -1/30 pattern):
+_G65 = _B12 / 10.0  # 6/5 = 12/10
+_G10 = _B6 / 60.0  # 1/10 = 6/60
+_G15 = _bending([[0, 0, 0, 0], [0, 2 / 15, 0, -1 / 30], [0, 0, 0, 0], [0, -1 / 30, 0, 2 / 15]])
+
+#: Basis of :func:`local_geometric_stiffness` over N/L, N, N L and N (Iy + Iz) / (A L).
+GEOMETRIC_BASIS = _basis(
+    [[(_XY, b), (_XZ, b * _FLIP)] for b in (_G65, _G10, _G15)] + [[(_TO, _PAIR)]]
+)
+
+
+def stiffness_coefficients(
+    E: FloatArray,
+    G: FloatArray,
+    A: FloatArray,
+    Iy: FloatArray,
+    Iz: FloatArray,
+    J: FloatArray,
+    Asy: FloatArray,
+    Asz: FloatArray,
+    L: FloatArray,
+) -> FloatArray:
+    """(..., 10) coefficients of :data:`STIFFNESS_BASIS`: E A / L, G J / L, then for the x-y
+    plane (E Iz, Asy) and the x-z plane (E Iy, Asz) c, c L, c L², c Φ L² with
+    c = E I / ((1 + Φ) L³) and Φ = 12 E I / (G As L²). Units follow the arguments of
+    :func:`local_stiffness`."""
     L2 = L * L
-    c = EI / ((1.0 + phi) * L2 * L)
-    one = np.ones_like(L)
-    rows = [
-        [12.0 * one, 6.0 * L, -12.0 * one, 6.0 * L],
-        [6.0 * L, (4.0 + phi) * L2, -6.0 * L, (2.0 - phi) * L2],
-        [-12.0 * one, -6.0 * L, 12.0 * one, -6.0 * L],
-        [6.0 * L, (2.0 - phi) * L2, -6.0 * L, (4.0 + phi) * L2],
-    ]
-    return c[..., None, None] * np.stack([np.stack(r, axis=-1) for r in rows], axis=-2)
-
-
-def _place(k: FloatArray, idx: npt.NDArray[np.intp], block: FloatArray) -> None:
-    """Add a square block into the (..., 12, 12) array ``k`` at rows and columns ``idx``."""
-    k[..., idx[:, None], idx[None, :]] += block
+    axial = E * A / L
+    torsion = G * J / L
+    shape = axial.shape
+    planes = []
+    for EI, As in ((E * Iz, Asy), (E * Iy, Asz)):
+        phi = 12.0 * EI / (G * As * L2)
+        cL2 = EI / ((1.0 + phi) * L)  # c L²
+        planes.append((cL2, phi))
+        shape = shape if cL2.shape == shape else np.broadcast_shapes(shape, cL2.shape)
+    if torsion.shape != shape:
+        shape = np.broadcast_shapes(shape, torsion.shape)
+    out = np.empty((*shape, 10))
+    out[..., 0] = axial
+    out[..., 1] = torsion
+    for p, (cL2, phi) in enumerate(planes):
+        c = out[..., 2 + 4 * p : 6 + 4 * p]
+        np.divide(cL2, L, out=c[..., 1])
+        np.divide(c[..., 1], L, out=c[..., 0])
+        c[..., 2] = cL2
+        np.multiply(cL2, phi, out=c[..., 3])
+    return out
 
 
 def local_stiffness(
@@ -99,39 +171,27 @@ def local_stiffness(
         deformation off (Euler–Bernoulli)
     L : length [mm]
     """
-    E, G, A, Iy, Iz, J, Asy, Asz, L = np.broadcast_arrays(E, G, A, Iy, Iz, J, Asy, Asz, L)
-    phi_y = 12.0 * E * Iz / (G * Asy * L * L)
-    phi_z = 12.0 * E * Iy / (G * Asz * L * L)
-    k = np.zeros((*L.shape, 12, 12))
-    axial = (E * A / L)[..., None, None] * np.array([[1.0, -1.0], [-1.0, 1.0]])
-    torsion = (G * J / L)[..., None, None] * np.array([[1.0, -1.0], [-1.0, 1.0]])
-    _place(k, _AX, axial)
-    _place(k, _TO, torsion)
-    _place(k, _XY, _bending_block(E * Iz, L, phi_y))
-    _place(k, _XZ, _bending_block(E * Iy, L, phi_z) * np.outer(_XZ_SIGN, _XZ_SIGN))
-    return k
+    coef = stiffness_coefficients(E, G, A, Iy, Iz, J, Asy, Asz, L)
+    return (coef @ STIFFNESS_BASIS).reshape(*coef.shape[:-1], 12, 12)
 
 
 def local_geometric_stiffness(
     N: FloatArray, A: FloatArray, Iy: FloatArray, Iz: FloatArray, L: FloatArray
 ) -> FloatArray:
-    """Geometric stiffness of members under axial force ``N`` [N, tension +], (..., 12, 12)."""
+    """Geometric stiffness of members under axial force ``N`` [N, tension +], (..., 12, 12).
+
+    ``A`` [mm²], ``Iy``, ``Iz`` [mm⁴], ``L`` [mm] as in :func:`local_stiffness`.
+    """
     N, A, Iy, Iz, L = np.broadcast_arrays(N, A, Iy, Iz, L)
-    L2 = L * L
-    one = np.ones_like(L)
-    rows = [
-        [1.2 * one, 0.1 * L, -1.2 * one, 0.1 * L],
-        [0.1 * L, 2.0 * L2 / 15.0, -0.1 * L, -L2 / 30.0],
-        [-1.2 * one, -0.1 * L, 1.2 * one, -0.1 * L],
-        [0.1 * L, -L2 / 30.0, -0.1 * L, 2.0 * L2 / 15.0],
-    ]
-    bend = (N / L)[..., None, None] * np.stack([np.stack(r, axis=-1) for r in rows], axis=-2)
-    kg = np.zeros((*L.shape, 12, 12))
-    _place(kg, _XY, bend)
-    _place(kg, _XZ, bend * np.outer(_XZ_SIGN, _XZ_SIGN))
-    twist = (N * (Iy + Iz) / (A * L))[..., None, None] * np.array([[1.0, -1.0], [-1.0, 1.0]])
-    _place(kg, _TO, twist)
-    return kg
+    coef = np.stack([N / L, N, N * L, N * (Iy + Iz) / (A * L)], axis=-1)
+    return (coef @ GEOMETRIC_BASIS).reshape(*coef.shape[:-1], 12, 12)
+
+
+# cross(a, b)_i = ε_ijk a_j b_k as (a ⊗ b) flattened times this (9, 3) Levi-Civita table
+_LEVI_CIVITA = _frozen(
+    [[0, 0, 0], [0, 0, 1], [0, -1, 0], [0, 0, -1], [0, 0, 0], [1, 0, 0], [0, 1, 0],
+     [-1, 0, 0], [0, 0, 0]]
+)
 
 
 def member_axes(
@@ -150,13 +210,15 @@ def member_axes(
     L : (..., n) lengths [mm]
     """
     d = xyz_2 - xyz_1
-    L = np.linalg.norm(d, axis=-1)
-    ex = d / L[..., None]
-    ref = np.broadcast_to(ref, ex.shape)
-    ez = ref - np.sum(ref * ex, axis=-1, keepdims=True) * ex
-    ez = ez / np.linalg.norm(ez, axis=-1, keepdims=True)
-    ey = np.cross(ez, ex)
-    return np.stack([ex, ey, ez], axis=-2), L
+    L = np.sqrt(np.einsum("...i,...i->...", d, d))
+    R = np.empty((*np.broadcast_shapes(d.shape, ref.shape)[:-1], 3, 3))
+    ex, ey, ez = R[..., 0, :], R[..., 1, :], R[..., 2, :]
+    np.divide(d, L[..., None], out=ex)
+    np.subtract(ref, np.einsum("...i,...i->...", ref, ex)[..., None] * ex, out=ez)
+    ez /= np.sqrt(np.einsum("...i,...i->...", ez, ez))[..., None]
+    np.matmul((ez[..., :, None] * ex[..., None, :]).reshape(*ez.shape[:-1], 9), _LEVI_CIVITA,
+              out=ey)
+    return R, L
 
 
 def block_rotation(R: FloatArray, blocks: int) -> FloatArray:
@@ -173,50 +235,73 @@ def to_global(k_local: FloatArray, R: FloatArray) -> FloatArray:
     return np.swapaxes(T, -1, -2) @ k_local @ T
 
 
-def condensation_map(k: FloatArray, released: BoolArray) -> FloatArray:
-    """Map S (..., 12, 12) with u = S u_kept for the released DOFs of one release pattern.
+# --- global matrices block by block ---------------------------------------------------------
+# The five (a, b) local-axis pairs that a 3x3 block of a member matrix can hold: x x (axial,
+# torsion), y y, z z, y z, z y (bending); x y, y x, x z, z x are always zero.
+_PAIRS = np.array([[0, 0], [1, 1], [2, 2], [1, 2], [2, 1]])
+_I3 = np.arange(3)
+#: R.reshape(9) indices: O[p, 3i + j] = R[a_p, i] · R[b_p, j]
+_OUTER_A = 3 * _PAIRS[:, 0, None] + np.repeat(_I3, 3)[None, :]
+_OUTER_B = 3 * _PAIRS[:, 1, None] + np.tile(_I3, 3)[None, :]
+_BLOCK = np.arange(16)
+#: k.reshape(144) indices: M[IJ, p] = k[3 I + a_p, 3 J + b_p], I = IJ // 4, J = IJ % 4
+_BLOCK_ENTRIES = (12 * (3 * (_BLOCK[:, None] // 4) + _PAIRS[None, :, 0])
+                  + 3 * (_BLOCK[:, None] % 4) + _PAIRS[None, :, 1])
+_ENTRY = np.arange(144)
+#: Local DOF (0-11) of the row and column of each of the 144 entries of :func:`global_blocks`.
+BLOCK_ROWS = 3 * (_ENTRY // 9 // 4) + _ENTRY % 9 // 3
+BLOCK_COLS = 3 * (_ENTRY // 9 % 4) + _ENTRY % 3
 
-    Static condensation: the released end forces are zero, so
-    u_r = -K_rr⁻¹ K_rk u_k. S is the identity on kept DOFs, that relation on released ones and
-    zero in the released columns, so that Sᵀ k S is the condensed matrix, expanded to 12x12 with
-    zero rows and columns at the releases.
+
+def global_blocks(k_local: FloatArray, R: FloatArray) -> FloatArray:
+    """Tᵀ k T of member matrices, block by block: (..., 12, 12), (..., 3, 3) -> (..., 16, 9).
+
+    With T = diag(R, R, R, R) the 3x3 block (I, J) of the global matrix is
+    Rᵀ k_IJ R = Σ_ab k_IJ[a, b] e_a e_bᵀ, e_a the local axes (rows of R). In a frame member's
+    stiffness, geometric stiffness and their condensed forms, axial and torsion terms only
+    couple x with x and bending only y and z with y and z, so k_IJ[a, b] is zero for the
+    pairs (x, y), (y, x), (x, z), (z, x) and the sum has five terms: per member, a
+    (16 blocks × 5 pairs) by (5 pairs × 9) product instead of two 12x12 products.
+
+    Returns ``out[..., 4 I + J, 3 i + j]``, the global entry at local DOFs
+    (3 I + i, 3 J + j), i.e. rows :data:`BLOCK_ROWS` and columns :data:`BLOCK_COLS`.
     """
-    r = np.flatnonzero(released)
-    kept = np.flatnonzero(~released)
-    S = np.zeros(k.shape)
-    S[..., kept, kept] = 1.0
-    if r.size:
-        k_rr = k[..., r[:, None], r[None, :]]
-        k_rk = k[..., r[:, None], kept[None, :]]
-        S[..., r[:, None], kept[None, :]] = -np.linalg.solve(k_rr, k_rk)
-    return S
+    Rf = R.reshape(*R.shape[:-2], 9)
+    outer = Rf[..., _OUTER_A] * Rf[..., _OUTER_B]
+    pairs = k_local.reshape(*k_local.shape[:-2], 144)[..., _BLOCK_ENTRIES]
+    out: FloatArray = pairs @ outer
+    return out
 
 
-def condense(
-    k: FloatArray, releases: BoolArray
-) -> tuple[FloatArray, FloatArray]:
-    """Condense member end releases out of local stiffness matrices.
+def blocks_to_matrix(blocks: FloatArray) -> FloatArray:
+    """(..., 16, 9) blocks of :func:`global_blocks` as (..., 12, 12) matrices."""
+    b = blocks.reshape(*blocks.shape[:-2], 4, 4, 3, 3)
+    return np.swapaxes(b, -3, -2).reshape(*blocks.shape[:-2], 12, 12)
 
-    Parameters
-    ----------
-    k : (..., n, 12, 12) local stiffness matrices
-    releases : (n, 12) True where the member end does not carry that force component
+
+# --- static condensation ----------------------------------------------------------------------
+_EYE12 = _frozen(np.eye(12))
+
+
+def condensation(k: FloatArray, released: BoolArray) -> tuple[FloatArray, FloatArray]:
+    """Condense released DOFs out of member matrices k (..., m, 12, 12), released (m, 12).
+
+    The released end forces are zero, so u_r = -K_rr⁻¹ K_rk u_k. With D the released DOFs,
+    one batched solve for all members whatever their pattern: M = D k D + (I − D) is K_rr on
+    the released block and the identity on the kept one, so X = M⁻¹ D k holds K_rr⁻¹ K_r· in
+    its released rows and zeros elsewhere. The map S = (I − X) with its released columns
+    zeroed gives u = S u_kept, and since the released rows of k S vanish, Sᵀ k S = k S: the
+    condensed matrix, zero in the released rows and columns (set to exact zeros).
+    The release patterns are checked when the model is made, so every K_rr is regular.
 
     Returns
     -------
-    k_condensed : (..., n, 12, 12) Sᵀ k S, zero at released DOFs
-    S : (..., n, 12, 12) the condensation maps, also used for the geometric stiffness
+    k_condensed : (..., m, 12, 12)
+    S : (..., m, 12, 12) condensation maps, also used for the geometric stiffness
     """
-    if not releases.any():
-        return k, np.broadcast_to(np.eye(12), k.shape)
-    S = np.broadcast_to(np.eye(12), k.shape).copy()
-    k_condensed = k.copy()
-    patterns, which = np.unique(releases, axis=0, return_inverse=True)
-    for p, pattern in enumerate(patterns):
-        if not pattern.any():
-            continue
-        members = np.flatnonzero(which.reshape(-1) == p)
-        S_p = condensation_map(k[..., members, :, :], pattern)
-        S[..., members, :, :] = S_p
-        k_condensed[..., members, :, :] = np.swapaxes(S_p, -1, -2) @ k[..., members, :, :] @ S_p
+    rows = released[:, :, None]
+    cols = released[:, None, :]
+    X = np.linalg.solve(np.where(rows & cols, k, _EYE12), np.where(rows, k, 0.0))
+    S = np.where(cols, 0.0, _EYE12 - X)
+    k_condensed = np.where(rows | cols, 0.0, k @ S)
     return k_condensed, S

@@ -32,25 +32,27 @@ def spd_solve(K: FloatArray, F: FloatArray) -> tuple[FloatArray, BoolArray]:
     X : (..., n, m)
     ok : (...) True where the matrix is sound
     """
-    batch = np.broadcast_shapes(K.shape[:-2], F.shape[:-2])
+    batch = K.shape[:-2] if K.shape[:-2] == F.shape[:-2] else np.broadcast_shapes(
+        K.shape[:-2], F.shape[:-2])
     size = int(np.prod(batch, dtype=np.int64))
-    mats = np.broadcast_to(K, (*batch, *K.shape[-2:])).reshape(size, *K.shape[-2:])
-    rhs = np.broadcast_to(F, (*batch, *F.shape[-2:])).reshape(size, *F.shape[-2:])
-    out = np.zeros(rhs.shape)
-    ok = np.ones(size, bool)
-    n = K.shape[-1]
+    n, m = K.shape[-1], F.shape[-1]
+    mats = (K if K.shape[:-2] == batch else np.broadcast_to(K, (*batch, n, n))).reshape(
+        size, n, n)
+    rhs = (F if F.shape[:-2] == batch else np.broadcast_to(F, (*batch, n, m))).reshape(
+        size, n, m)
+    out = np.empty((size, n, m))
+    info = np.zeros(size, np.intp)
     if n == 0:
-        return out.reshape(*batch, *F.shape[-2:]), ok.reshape(batch)
+        return out.reshape(*batch, n, m), np.ones(batch, bool)
     pivots = np.empty((size, n))
+    dposv = lapack.dposv
     for i in range(size):
         # K is symmetric, so K.T is the same matrix in the Fortran order LAPACK wants: no copy
-        c, x, info = lapack.dposv(mats[i].T, rhs[i], lower=True)
-        ok[i] = info == 0
-        out[i] = x
-        pivots[i] = np.diagonal(c)
+        c, out[i], info[i] = dposv(mats[i].T, rhs[i], lower=True)
+        pivots[i] = c.diagonal()
     diag = np.diagonal(mats, axis1=-2, axis2=-1)
-    ok &= np.all(pivots * pivots >= PIVOT_TOLERANCE * diag, axis=-1)
-    return out.reshape(*batch, *F.shape[-2:]), ok.reshape(batch)
+    ok = (info == 0) & np.all(pivots * pivots >= PIVOT_TOLERANCE * diag, axis=-1)
+    return out.reshape(*batch, n, m), ok.reshape(batch)
 
 
 def first_bad(ok: BoolArray) -> tuple[int, ...] | None:

@@ -27,6 +27,7 @@ class Reduction:
     free: IntArray  # (n_free,) global DOF indices not held by supports
     T: FloatArray | None  # (..., n_free, n_q) null-space basis of the constraints, None = I
     C_free: FloatArray  # (..., n_rigid, n_free) constraint rows on the free DOFs
+    position: IntArray  # (n_dofs,) place of each DOF with the free ones first, then the fixed
 
     @property
     def n_q(self) -> int:
@@ -47,6 +48,12 @@ class Reduction:
             A_ff = np.swapaxes(self.T, -1, -2) @ A_ff @ self.T
         # C order, so that LAPACK gets each matrix without a copy (see linalg.cholesky)
         return np.ascontiguousarray(A_ff)
+
+    def project_free(self, A_ff: FloatArray) -> FloatArray:
+        """Tᵀ A_ff T for a free-free block (..., n_free, n_free)."""
+        if self.T is None:
+            return A_ff
+        return np.ascontiguousarray(np.swapaxes(self.T, -1, -2) @ A_ff @ self.T)
 
     def project_rhs(self, F: FloatArray) -> FloatArray:
         """Tᵀ F_f for full right-hand sides (..., n_dofs, m)."""
@@ -75,11 +82,16 @@ def _null_space(C: FloatArray) -> FloatArray:
 
 def reduce(model: FrameModel) -> Reduction:
     """Remove supported DOFs and rigid connector components from the unknowns."""
-    free = np.flatnonzero(~model.fixed.reshape(-1))
+    fixed = model.fixed.reshape(-1)
+    order = np.argsort(fixed, kind="stable")  # free DOFs first, each group in DOF order
+    free = order[: fixed.size - int(np.count_nonzero(fixed))]
+    position = np.empty_like(order)
+    position[order] = np.arange(order.size)
+    if not (model.connectors.count and model.connectors.rigid.any()):
+        C = np.zeros((*model.batch_shape, 0, free.size))
+        return Reduction(free=free, T=None, C_free=C, position=position)
     C = assemble.constraint_rows(model)[..., free]
-    if C.shape[-2] == 0:
-        return Reduction(free=free, T=None, C_free=C)
-    return Reduction(free=free, T=_null_space(C), C_free=C)
+    return Reduction(free=free, T=_null_space(C), C_free=C, position=position)
 
 
 def _mode_names(model: FrameModel, red: Reduction, mode: FloatArray) -> tuple[tuple[str, str], ...]:
@@ -135,7 +147,7 @@ def _take(
     one = take(model, index[: len(model.batch_shape)])
     T = None if red.T is None else red.T[index[: red.T.ndim - 2]]
     C = red.C_free[index[: red.C_free.ndim - 2]]
-    return one, Reduction(free=red.free, T=T, C_free=C)
+    return one, Reduction(free=red.free, T=T, C_free=C, position=red.position)
 
 
 def checked_solve(model: FrameModel, red: Reduction, Kr: FloatArray, Fr: FloatArray) -> FloatArray:
@@ -155,4 +167,4 @@ def case_reduction(red: Reduction, cases: int) -> Reduction:
     T = np.broadcast_to(red.T[..., None, :, :], (*red.T.shape[:-2], cases, *red.T.shape[-2:]))
     C = np.broadcast_to(red.C_free[..., None, :, :],
                         (*red.C_free.shape[:-2], cases, *red.C_free.shape[-2:]))
-    return Reduction(free=red.free, T=T, C_free=C)
+    return Reduction(free=red.free, T=T, C_free=C, position=red.position)

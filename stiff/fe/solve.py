@@ -20,8 +20,8 @@ from stiff.fe.reduce import Reduction, case_reduction, checked_solve, reduce
 from stiff.fe.results import Solution, recover
 
 #: Models solved together in one chunk of a batch: large enough to amortise Python overhead,
-#: small enough that a chunk's stiffness matrices stay in cache.
-CHUNK = 256
+#: small enough that a chunk's arrays stay in cache.
+CHUNK = 1024
 
 
 def _loads_matrix(model: FrameModel, loads: FloatArray) -> FloatArray:
@@ -58,9 +58,42 @@ def assemble_model(model: FrameModel) -> Assembled:
     return Assembled(model=model, mats=mats, K=K, red=red, Kr=red.project(K))
 
 
+@dataclass(frozen=True)
+class _Reduced:
+    """What a linear solve needs: the stiffness at the free DOFs' columns, reduced."""
+
+    model: FrameModel
+    mats: assemble.BeamMatrices | None
+    K_cols: FloatArray  # (..., n_dofs, n_free): free rows, then support rows (red.position)
+    red: Reduction
+    Kr: FloatArray  # (..., n_q, n_q)
+
+    def solve(self, Fr: FloatArray) -> FloatArray:
+        """Reduced solution q (..., n_q, m) for reduced loads Fr; MechanismError if singular."""
+        return checked_solve(self.model, self.red, self.Kr, Fr)
+
+
+def _reduced(model: FrameModel) -> _Reduced:
+    """Only the columns of the free DOFs are assembled: the free-free block to solve with and
+    the supports' rows for the reactions; the full matrix is never formed."""
+    mats = assemble.beam_matrices(model) if model.beams.count else None
+    red = reduce(model)
+    n_free = red.free.size
+    K_cols = assemble.free_columns(model, mats, red.position, n_free)
+    return _Reduced(model=model, mats=mats, K_cols=K_cols, red=red,
+                    Kr=red.project_free(K_cols[..., :n_free, :]))
+
+
 def _static_chunk(model: FrameModel, F: FloatArray) -> Solution:
-    fac = assemble_model(model)
-    return recover(model, *_displace(fac, F), fac.mats)
+    fac = _reduced(model)
+    red = fac.red
+    q = fac.solve(red.project_rhs(np.swapaxes(F, -1, -2)))
+    u_free = q if red.T is None else red.T @ q  # (..., n_free, c)
+    U = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))
+    U[..., red.free] = np.swapaxes(u_free, -1, -2)
+    KU = np.swapaxes(fac.K_cols @ u_free, -1, -2)[..., red.position]
+    F, U = np.broadcast_arrays(F, U)
+    return recover(model, U, F, KU, fac.mats)
 
 
 def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
@@ -73,7 +106,9 @@ def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
         batch axes broadcast against the model's
     """
     F = _loads_matrix(model, loads)
-    batch = np.broadcast_shapes(model.batch_shape, F.shape[:-2])
+    model_batch = model.batch_shape
+    batch = model_batch if model_batch == F.shape[:-2] or F.ndim == 2 else np.broadcast_shapes(
+        model_batch, F.shape[:-2])
     if len(batch) == 0 or batch_size(batch) <= CHUNK:
         return _static_chunk(model, F)
     F = np.broadcast_to(F, (*batch, *F.shape[-2:])).reshape(-1, *F.shape[-2:])
@@ -106,7 +141,7 @@ def compliance(model: FrameModel, dofs: IntArray) -> FloatArray:
     rad/N = mm/(N·mm) across. A supported DOF has zero compliance. All m unit loads are solved
     as one multi-right-hand-side solve on one factorisation.
     """
-    fac = assemble_model(model)
+    fac = _reduced(model)
     dofs = np.asarray(dofs, dtype=np.intp).reshape(-1)
     E = np.zeros((model.n_dofs, dofs.size))
     E[dofs, np.arange(dofs.size)] = 1.0
@@ -133,13 +168,16 @@ def geometric_stiffness(
     spring_change : (..., n_springs) change of spring tension from the preload [N]
     """
     shape = np.broadcast_shapes(model.batch_shape, axial.shape[:-1], spring_change.shape[:-1])
-    parts: list[tuple[FloatArray, IntArray]] = []
+    parts: list[assemble.Part] = []
     if model.beams.count and mats is not None:
-        parts.append((assemble.beam_geometric(model, mats, axial), assemble.beam_dofs(model)))
+        dofs = assemble.beam_dofs(model)
+        parts.append((assemble.beam_geometric(model, mats, axial),
+                      dofs[:, element.BLOCK_ROWS], dofs[:, element.BLOCK_COLS]))
     if model.springs.count:
-        parts.append((assemble.spring_geometric(model, spring_change),
-                      assemble.spring_dofs(model)))
-    return assemble.assemble_matrix(model.n_dofs, shape, parts)
+        k = assemble.spring_geometric(model, spring_change)
+        parts.append((k.reshape(*k.shape[:-2], 36), *assemble.square_entries(
+            assemble.spring_dofs(model))))
+    return assemble.assemble_matrix(np.arange(model.n_dofs), model.n_dofs, shape, parts)
 
 
 def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
@@ -148,7 +186,7 @@ def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
     Solves (K + λ K_G) φ = 0 with K_G from the members' axial forces and the springs' tension
     changes of the case; ``inf`` when no compression can buckle it.
     """
-    fac = assemble_model(model)
+    fac = _reduced(model)
     fac.solve(np.zeros((*fac.Kr.shape[:-1], 1)))  # raises if the model is a mechanism
     axial = solution.beam_axial
     change = solution.spring_forces - model.springs.tension[..., None, :]
@@ -206,5 +244,4 @@ def _local_geometric(
     b = model.beams
     kg = element.local_geometric_stiffness(
         solution.beam_axial, b.A, b.Iy, b.Iz, mats.L[..., None, :])
-    S = mats.S[..., None, :, :, :]
-    return np.swapaxes(S, -1, -2) @ kg @ S
+    return mats.condense(kg, cases=True)
