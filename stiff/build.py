@@ -26,7 +26,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from stiff.case import BODY, Case, Joint, Part, Section
+from stiff.case_model import BODY, Case, Joint, Part, Section
 from stiff.errors import CaseError, ModelError
 from stiff.fe import Beams, Connectors, FrameModel, Springs
 from stiff.kinematics import Pose

@@ -19,7 +19,9 @@ from typing import Any, Literal
 
 from stiff.errors import CaseError
 
-FieldKind = Literal["float", "int", "str", "names", "bool", "point", "floats", "table"]
+FieldKind = Literal[
+    "float", "int", "str", "names", "bool", "point", "floats", "table", "list"
+]
 
 
 @dataclass(frozen=True)
@@ -271,6 +273,10 @@ class Reader:
             for v in nums:
                 self._check_range(where, v, spec)
             return nums
+        if spec.kind == "list":
+            if not isinstance(value, list):
+                raise self.error(where, f"must be a list, got {_type_name(value)}")
+            return value
         if spec.kind == "table":
             if not isinstance(value, dict):
                 raise self.error(where, f"must be a table, got {_type_name(value)}")

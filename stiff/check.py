@@ -1,11 +1,11 @@
 """`stiff check`: a case in its pose, through the frame model, to the numbers a designer asks.
 
 At the case's pose: the foot's compliance and its principal directions, the out-of-plane
-(lateral) compliance and twist, where the give comes from, and a stance load case: the leg's
-share of the robot's weight pushing up on the foot, with the springs' preload, giving the foot
-deflection and each actuator's torque against its stall torque. Deflection targets in the
-case are checked against the stance case (and against a lateral push of ``lateral_fraction``
-of the stance force when the case gives one).
+(lateral) compliance and twist, where the give comes from; the landing estimate; and every
+load case (``stiff.loads``) with the foot deflection, each actuator's torque against its stall
+torque and each spring's force and length. Deflection targets are checked in every load case
+the case names (``targets.deflection_cases``; by default the static ones: stance or payload,
+and the lateral push).
 """
 
 from __future__ import annotations
@@ -16,40 +16,20 @@ from dataclasses import dataclass
 import numpy as np
 
 from stiff.build import Built, build
-from stiff.case import Case
-from stiff.fe import preload_loads, solve_static
-from stiff.kinematics import Pose, foot_jacobian
+from stiff.case_model import Case
+from stiff.errors import CaseError, PoseError
+from stiff.kinematics import Linkage, Pose, foot_jacobian, solve_pose
+from stiff.landing import LandingResult
 from stiff.linkage import case_pose, linkage
+from stiff.loads import (
+    STATIC_CASES,
+    LoadCaseResult,
+    landing,
+    load_cases,
+    solve_load_cases,
+    weight_on_leg_N,
+)
 from stiff.stiffness import FootStiffness, foot_stiffness
-from stiff.units import G_MM_PER_S2
-
-
-@dataclass(frozen=True)
-class ActuatorDemand:
-    """An actuator's torque in a load case [N·mm] against its stall torque."""
-
-    name: str
-    torque_Nmm: float
-    stall_torque_Nmm: float
-
-    @property
-    def margin(self) -> float:
-        """Stall torque over demand (∞ when the demand is zero)."""
-        if abs(self.torque_Nmm) <= 1e-9 * self.stall_torque_Nmm:
-            return math.inf
-        return self.stall_torque_Nmm / abs(self.torque_Nmm)
-
-
-@dataclass(frozen=True)
-class LoadCaseResult:
-    """One load case: what pushes on the foot and what the leg does."""
-
-    name: str
-    description: str
-    foot_force_N: tuple[float, float, float]
-    foot_deflection_mm: tuple[float, float, float]
-    actuators: tuple[ActuatorDemand, ...]
-    spring_forces_N: tuple[tuple[str, float], ...]
 
 
 @dataclass(frozen=True)
@@ -77,6 +57,7 @@ class CheckResult:
     foot_xy_mm: tuple[float, float]
     foot_jacobian_mm_per_rad: np.ndarray  # (2, n_actuators)
     stiffness: FootStiffness
+    landing: LandingResult | None
     load_cases: tuple[LoadCaseResult, ...]
     targets: tuple[TargetCheck, ...]
     warnings: tuple[str, ...]
@@ -87,42 +68,57 @@ class CheckResult:
         return all(t.met for t in self.targets)
 
 
-def stance_force_N(case: Case) -> tuple[str, float, str]:
-    """The static load case's name, its vertical foot force [N] (+ up) and its basis."""
-    loads = case.loads
-    if loads.payload_t is not None:
-        return "payload", -loads.payload_t * G_MM_PER_S2, (
-            f"the weight of a {loads.payload_t * 1e3:g} kg payload hanging from the foot node")
-    if loads.robot_mass_t is None:
-        return "stance", 10.0, ("no robot mass in the case: a 10 N upward foot force is used to "
-                                "show the actuator torques; give loads.robot_mass_kg")
-    legs = loads.legs_in_stance or loads.legs
-    force = loads.robot_mass_t * G_MM_PER_S2 / legs
-    return "stance", force, (f"robot weight {loads.robot_mass_t * 1e3:g} kg × g shared by "
-                             f"{legs} legs in stance")
+def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
+    """The pose and model the case lands in, when it names a landing pose of its own."""
+    if case.loads.landing_angles_rad is None:
+        return None
+    asked = dict(case.loads.landing_angles_rad)
+    angles = [asked.get(a.name, a.angle_rad) for a in case.actuators]
+    try:
+        pose = solve_pose(link, angles)
+    except PoseError as err:
+        raise CaseError(case.file, "loads.landing_angles_deg",
+                        f"the leg cannot reach this landing pose: {err}") from None
+    return pose, build(case, pose)
 
 
-def _load_case(built: Built, case: Case, name: str, description: str,
-               foot_force: tuple[float, float, float], with_preload: bool) -> LoadCaseResult:
-    model = built.model
-    loads = np.zeros((1, model.n_nodes, 6))
-    loads[0, built.foot, :3] = foot_force
-    if with_preload:
-        loads[0] += preload_loads(model)
-    sol = solve_static(model, loads)
-    demand = []
-    for i, act in enumerate(built.connector_actuator):
-        if act is None:
+def _targets(case: Case, results: tuple[LoadCaseResult, ...]) -> list[TargetCheck]:
+    """Deflection targets in the load cases they apply to (the static ones by default)."""
+    out = []
+    t = case.targets
+    names = t.deflection_cases or STATIC_CASES
+    known = [r.name for r in results]
+    for n in t.deflection_cases or ():
+        if n not in known:
+            raise CaseError(case.file, "targets.deflection_cases", f"no load case '{n}' "
+                            f"(the load cases are: {', '.join(known)})")
+    for r in results:
+        if r.case.foot_held or r.name not in names:
             continue
-        a = case.actuator(act)
-        demand.append(ActuatorDemand(act, float(sol.connector_forces[0, i, 5]),
-                                     a.stall_torque_Nmm))
-    springs = tuple((n, float(f)) for n, f in zip(built.spring_names, sol.spring_forces[0],
-                                                  strict=True))
-    d = sol.displacements[0, built.foot, :3]
-    return LoadCaseResult(name=name, description=description, foot_force_N=foot_force,
-                          foot_deflection_mm=(float(d[0]), float(d[1]), float(d[2])),
-                          actuators=tuple(demand), spring_forces_N=springs)
+        dx, dy, dz = r.foot_deflection_mm
+        if t.max_foot_deflection_mm is not None:
+            out.append(TargetCheck("foot deflection in the linkage plane", r.name,
+                                   math.hypot(dx, dy), t.max_foot_deflection_mm))
+        if t.max_lateral_deflection_mm is not None:
+            out.append(TargetCheck("lateral foot deflection", r.name, abs(dz),
+                                   t.max_lateral_deflection_mm))
+    return out
+
+
+def _warnings(results: tuple[LoadCaseResult, ...], land: LandingResult | None) -> list[str]:
+    out = []
+    for r in results:
+        for a in r.actuators:
+            if a.margin < 1.0 and not r.case.foot_held:
+                out.append(f"{r.name}: actuator {a.name} needs {abs(a.torque_Nmm) / 1e3:.3g} "
+                           f"N·m, more than its stall torque {a.stall_torque_Nmm / 1e3:.3g} N·m")
+        for s in r.springs:
+            if s.max_length_mm is not None and s.length_mm > s.max_length_mm:
+                out.append(f"{r.name}: spring {s.name} stretches to {s.length_mm:.1f} mm, beyond"
+                           f" its maximum length {s.max_length_mm:g} mm")
+    if land is not None:
+        out.extend(f"landing: {e}" for e in land.events)
+    return out
 
 
 def run_check(case: Case) -> CheckResult:
@@ -130,40 +126,26 @@ def run_check(case: Case) -> CheckResult:
     link = linkage(case)
     pose = case_pose(case, link)
     built = build(case, pose)
-    warnings = list(built.warnings)
-    name, force, basis = stance_force_N(case)
-    if case.loads.robot_mass_t is None and case.loads.payload_t is None:
-        warnings.append(basis)
-    way = "upward" if force >= 0 else "downward"
-    stance = _load_case(built, case, name, f"{way} foot force {abs(force):.3g} N ({basis}), "
-                        "with the springs' preload", (0.0, force, 0.0), with_preload=True)
-    cases = [stance]
-    targets = []
-    t = case.targets
-    if t.max_foot_deflection_mm is not None:
-        dx, dy, _ = stance.foot_deflection_mm
-        targets.append(TargetCheck("foot deflection in the linkage plane", name,
-                                   math.hypot(dx, dy), t.max_foot_deflection_mm))
-    if case.loads.lateral_fraction:
-        side = abs(force) * case.loads.lateral_fraction
-        lateral = _load_case(built, case, "lateral push", f"sideways foot force {side:.3g} N "
-                             f"({case.loads.lateral_fraction:g} of the {name} force), out of "
-                             "the linkage plane", (0.0, 0.0, side), with_preload=False)
-        cases.append(lateral)
-        if t.max_lateral_deflection_mm is not None:
-            targets.append(TargetCheck("lateral foot deflection", lateral.name,
-                                       abs(lateral.foot_deflection_mm[2]),
-                                       t.max_lateral_deflection_mm))
-    for lc in cases:
-        for a in lc.actuators:
-            if a.margin < 1.0:
-                warnings.append(f"{lc.name}: actuator {a.name} needs {abs(a.torque_Nmm) / 1e3:.3g}"
-                                f" N·m, more than its stall torque "
-                                f"{a.stall_torque_Nmm / 1e3:.3g} N·m")
     foot_index = link.node_names.index(case.foot)
+    jacobian = foot_jacobian(link, pose, foot_index)
+    landing_at = _landing_pose(case, link)
+    land_pose, land_built = landing_at or (pose, built)
+    land_jac = jacobian if landing_at is None else foot_jacobian(link, land_pose, foot_index)
+    land = landing(case, land_built, land_pose, land_jac)
+    cases = load_cases(case, built, land)
+    at_landing = tuple(lc for lc in cases if lc.name == "landing" or lc.name.startswith("slip"))
+    rest = tuple(lc for lc in cases if lc not in at_landing)
+    if landing_at is None:
+        results = solve_load_cases(case, built, cases)
+    else:
+        results = solve_load_cases(case, built, rest) + solve_load_cases(case, land_built,
+                                                                         at_landing)
+    warnings = list(built.warnings)
+    if case.loads.robot_mass_t is None and case.loads.payload_t is None:
+        warnings.append(weight_on_leg_N(case)[1])
+    warnings += _warnings(results, land)
     xy = pose.node_xy_mm[foot_index]
     return CheckResult(
         case=case, pose=pose, built=built, foot_xy_mm=(float(xy[0]), float(xy[1])),
-        foot_jacobian_mm_per_rad=foot_jacobian(link, pose, foot_index),
-        stiffness=foot_stiffness(built), load_cases=tuple(cases), targets=tuple(targets),
-        warnings=tuple(warnings))
+        foot_jacobian_mm_per_rad=jacobian, stiffness=foot_stiffness(built), landing=land,
+        load_cases=results, targets=tuple(_targets(case, results)), warnings=tuple(warnings))

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from stiff.case import BODY, Case
+from stiff.case_model import BODY, Case
 from stiff.kinematics import (
     KinJoint,
     Linkage,

@@ -61,7 +61,7 @@ def test_hopping_leg_stance_force_is_its_weight() -> None:
     result = run_check(load_case(CASES_DIR / "hopping_leg.toml"))
     stance = result.load_cases[0]
     assert stance.name == "stance"
-    assert stance.foot_force_N[1] == pytest.approx(1.2e-3 * G_MM_PER_S2, rel=1e-12)
+    assert stance.case.foot_force_N[1] == pytest.approx(1.2e-3 * G_MM_PER_S2, rel=1e-12)
     assert all(a.margin > 1 for a in stance.actuators)
 
 

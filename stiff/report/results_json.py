@@ -37,6 +37,26 @@ def _shares(shares: tuple[Share, ...]) -> list[dict[str, Any]]:
     return [{"name": s.name, "kind": s.kind, "share": _num(s.share)} for s in shares]
 
 
+def _landing(result: CheckResult) -> dict[str, Any]:
+    land = result.landing
+    assert land is not None
+    return {
+        "mass_on_leg_kg": _num(land.mass_t * 1e3),
+        "drop_height_mm": _num(land.drop_height_mm),
+        "touchdown_speed_m_per_s": _num(land.touchdown_speed_mm_per_s / 1e3),
+        "leg_stiffness_N_per_mm": _num(land.stiffness_N_per_mm),
+        "damping_ratio": _num(land.damping_ratio),
+        "energy_method_peak_N": _num(land.energy_peak_N),
+        "peak_force_N": _num(land.peak_N),
+        "peak_over_weight": _num(land.peak_over_weight),
+        "stroke_mm": _num(land.stroke_mm),
+        "time_to_peak_ms": _num(land.time_to_peak_s * 1e3),
+        "actuator_saturated": any("stall" in e for e in land.events),
+        "bottomed_out": any("bottoms out" in e for e in land.events),
+        "events": list(land.events),
+    }
+
+
 def results_dict(result: CheckResult) -> dict[str, Any]:
     """The check as a JSON-ready dictionary."""
     case, pose, st = result.case, result.pose, result.stiffness
@@ -65,15 +85,22 @@ def results_dict(result: CheckResult) -> dict[str, Any]:
         },
         "compliance_breakdown": {"vertical": _shares(st.vertical),
                                  "lateral": _shares(st.lateral)},
+        "landing": None if result.landing is None else _landing(result),
         "load_cases": [{
             "name": lc.name,
-            "description": lc.description,
-            "foot_force_N": _vec(lc.foot_force_N),
+            "description": lc.case.description,
+            "foot_held": lc.case.foot_held,
+            "foot_force_N": _vec(lc.case.foot_force_N),
             "foot_deflection_mm": _vec(lc.foot_deflection_mm),
             "actuators": [{"name": a.name, "torque_Nm": _num(a.torque_Nmm / 1e3),
                            "stall_torque_Nm": _num(a.stall_torque_Nmm / 1e3),
-                           "margin": _num(a.margin)} for a in lc.actuators],
-            "spring_forces_N": {n: _num(f) for n, f in lc.spring_forces_N},
+                           "margin": _num(a.margin),
+                           "saturating_foot_force_N": None if a.saturating_foot_force_N is None
+                           else _num(a.saturating_foot_force_N)} for a in lc.actuators],
+            "springs": [{"name": sp.name, "force_N": _num(sp.force_N),
+                         "length_mm": _num(sp.length_mm),
+                         "max_length_mm": None if sp.max_length_mm is None
+                         else _num(sp.max_length_mm)} for sp in lc.springs],
         } for lc in result.load_cases],
         "checks": [{
             "item": "foot",

@@ -36,16 +36,25 @@ def summary_lines(result: CheckResult, *, cautions: bool = True) -> list[str]:
         text = ", ".join(f"{s.name} ({s.kind}) {100 * s.share:.0f} %" for s in top)
         out.append(f"where the {label} give comes from: {text}")
     out.append("")
+    land = result.landing
+    if land is not None:
+        what = "; ".join(land.events) or "no actuator stalls"
+        out.append(f"landing: {land.mass_t * 1e3:.3g} kg dropped {land.drop_height_mm:g} "
+                   f"mm onto the foot: peak {land.peak_N:.3g} N = "
+                   f"{land.peak_over_weight:.2f} × its weight "
+                   f"(energy method {land.energy_peak_N:.3g} N), stroke {land.stroke_mm:.2f} mm"
+                   f" in {land.time_to_peak_s * 1e3:.1f} ms; {what}")
     for lc in result.load_cases:
         dx, dy, dz = lc.foot_deflection_mm
-        out.append(f"{lc.name}: {lc.description}")
-        out.append(f"  foot moves ({dx:+.3f}, {dy:+.3f}, {dz:+.3f}) mm")
+        out.append(f"{lc.name}: {lc.case.description}")
+        if not lc.case.foot_held:
+            out.append(f"  foot moves ({dx:+.3f}, {dy:+.3f}, {dz:+.3f}) mm")
         for a in sorted(lc.actuators, key=lambda a: a.margin):
             margin = "∞" if math.isinf(a.margin) else f"{a.margin:.2f}"
             out.append(f"  {a.name}: {a.torque_Nmm / 1e3:+.3f} N·m of "
                        f"{a.stall_torque_Nmm / 1e3:.3g} N·m stall (margin {margin})")
-        for name, f in lc.spring_forces_N:
-            out.append(f"  spring {name}: {f:.2f} N")
+        for sp in lc.springs:
+            out.append(f"  spring {sp.name}: {sp.force_N:.2f} N at {sp.length_mm:.1f} mm")
     if result.targets:
         out.append("")
         for t in sorted(result.targets, key=lambda t: t.limit_mm / max(t.demand_mm, 1e-300)):
