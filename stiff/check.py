@@ -73,6 +73,12 @@ def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
     if case.loads.landing_angles_rad is None:
         return None
     asked = dict(case.loads.landing_angles_rad)
+    for a in case.actuators:
+        value = asked.get(a.name, a.angle_rad)
+        if (a.angle_min_rad is not None and value < a.angle_min_rad) or (
+                a.angle_max_rad is not None and value > a.angle_max_rad):
+            raise CaseError(case.file, f"loads.landing_angles_deg.{a.name}",
+                            f"{math.degrees(value):g}° is outside the actuator's range")
     angles = [asked.get(a.name, a.angle_rad) for a in case.actuators]
     try:
         pose = solve_pose(link, angles)

@@ -118,7 +118,7 @@ def simulate_landing(mass_t: float, drop_height_mm: float, curve: ForceCurve,
     stopped.terminal = True  # type: ignore[attr-defined]
     stopped.direction = -1  # type: ignore[attr-defined]
     period = 2 * math.pi * math.sqrt(mass_t / k)
-    t_end = 50.0 * period + 10.0 * (v0 / g if g else 1.0)
+    t_end = 50.0 * period + 10.0 * v0 / g + 1.0
     sol = solve_ivp(rhs, (0.0, t_end), [0.0, v0], events=stopped, max_step=period / 200.0,
                     rtol=1e-10, atol=1e-12 * max(d_max, 1e-9), dense_output=True)
     t_events = sol.t_events or [np.zeros(0)]
@@ -140,6 +140,11 @@ def simulate_landing(mass_t: float, drop_height_mm: float, curve: ForceCurve,
     for s in curve.stages[1:]:
         if x_stop >= s.start_mm:
             events.append(s.event)
+    last = curve.stage_at(x_stop)
+    if not sol.t_events or not sol.t_events[0].size:
+        events.append(f"the leg does not stop the fall: past {last.start_mm:.3g} mm of stroke "
+                      f"it holds only {last.force_N:.3g} N against the "
+                      f"{mass_t * g:.3g} N weight")
     return LandingResult(
         mass_t=mass_t, drop_height_mm=drop_height_mm, touchdown_speed_mm_per_s=v0,
         stiffness_N_per_mm=k, energy_peak_N=k * d_max, energy_stroke_mm=d_max,

@@ -61,6 +61,7 @@ class LoadCase:
     extra: tuple[NodeLoad, ...] = ()
     foot_held: bool = False
     with_preload: bool = True
+    stalled: tuple[str, float] | None = None  # an actuator applying its stall torque [N·mm]
 
 
 @dataclass(frozen=True)
@@ -268,7 +269,7 @@ def load_cases(case: Case, built: Built, land: LandingResult | None) -> tuple[Lo
                                 f"{a.name} at its stall torque {a.stall_torque_Nmm / 1e3:g} N·m"
                                 f" ({label}), the foot held by the ground",
                                 (0.0, 0.0, 0.0), _stall_moments(built, a.name, tau),
-                                foot_held=True))
+                                foot_held=True, stalled=(a.name, tau)))
     for s in loads.static:
         node = built.node_of[(s.part, s.node)]
         out.append(LoadCase(s.name, f"the case's static load at {s.node} on {s.part}",
@@ -278,7 +279,11 @@ def load_cases(case: Case, built: Built, land: LandingResult | None) -> tuple[Lo
 
 
 def _stall_moments(built: Built, actuator: str, tau: float) -> tuple[NodeLoad, ...]:
-    """The actuator's torque as equal and opposite moments on its two parts."""
+    """The actuator's torque as equal and opposite moments on its two parts.
+
+    The stalled actuator is a torque source: its holding stiffness is taken out of the model
+    for this case (see ``solve_load_cases``), the foot held by the ground stops the motion.
+    """
     i = next(i for i, a in _driven(built) if a == actuator)
     a, b = (int(n) for n in built.model.connectors.nodes[i])
     return (NodeLoad(b, (0.0, 0.0, 0.0), (0.0, 0.0, tau)),
@@ -308,11 +313,12 @@ def solve_load_cases(case: Case, built: Built, cases: tuple[LoadCase, ...]
     """Solve every load case: those with a free foot together, those with a held foot
     together."""
     results: dict[int, LoadCaseResult] = {}
-    for held in (False, True):
-        chosen = [i for i, lc in enumerate(cases) if lc.foot_held == held]
-        if not chosen:
-            continue
-        model = held_foot(built.model, built.foot) if held else built.model
+    groups: dict[tuple[bool, str | None], list[int]] = {}
+    for i, lc in enumerate(cases):
+        groups.setdefault((lc.foot_held, lc.stalled[0] if lc.stalled else None), []).append(i)
+    for (held, stalled), chosen in groups.items():
+        model = _freed(built, {stalled}) if stalled else built.model
+        model = held_foot(model, built.foot) if held else model
         loads = np.stack([_load_array(model, built, cases[i]) for i in chosen])
         sol = solve_static(model, loads)
         for j, i in enumerate(chosen):
@@ -331,6 +337,8 @@ def _result(case: Case, built: Built, model: FrameModel, lc: LoadCase, sol: Solu
     demand = []
     for i, a in _driven(built):
         torque = float(sol.connector_forces[0, i, 5])
+        if lc.stalled is not None and lc.stalled[0] == a:
+            torque = lc.stalled[1]
         stall = case.actuator(a).stall_torque_Nmm
         sat = (stall * foot_force / abs(torque)
                if foot_force > 0 and abs(torque) > 1e-9 * stall else None)

@@ -18,6 +18,7 @@ from stiff import __version__
 from stiff.cautions import CAUTIONS
 from stiff.check import CheckResult
 from stiff.errors import StiffError
+from stiff.report.tables import write_tables
 from stiff.stiffness import Share
 from stiff.units import rad_to_deg
 
@@ -128,4 +129,5 @@ def write_results(result: CheckResult, out_dir: Path) -> Path:
     tmp = path.with_suffix(".json.part")
     tmp.write_text(text + "\n", encoding="utf-8")
     tmp.replace(path)
+    write_tables(result, out_dir)
     return path
