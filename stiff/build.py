@@ -32,7 +32,7 @@ from stiff.fe import Beams, Connectors, FrameModel, Springs
 from stiff.kinematics import Pose
 from stiff.linkage import part_index
 from stiff.materials import PrintedMaterial
-from stiff.printed_sections import printed_rectangle, printed_round
+from stiff.printed_sections import PrintedSection, printed_rectangle, printed_round
 from stiff.sections import BeamSection, tube_section
 
 RIGID = math.inf
@@ -49,6 +49,8 @@ class Built:
     foot: int  # model node of the foot
     beam_part: tuple[str, ...]  # the part each member belongs to
     beam_sections: tuple[BeamSection, ...]
+    beam_printed: tuple[PrintedSection | None, ...]  # regions of printed members, for stresses
+    beam_segment: tuple[tuple[str, str], ...]  # the nodes each member joins
     connector_joint: tuple[str, ...]  # the joint each connector belongs to
     connector_actuator: tuple[str | None, ...]  # the actuator holding its twist, if any
     spring_names: tuple[str, ...]
@@ -57,23 +59,27 @@ class Built:
     warnings: tuple[str, ...]
 
 
-def _section(case: Case, part: Part, s: Section, cache: dict[Section, BeamSection]) -> BeamSection:
+def _section(case: Case, part: Part, s: Section, cache: dict[Section, PrintedSection]
+             ) -> PrintedSection:
     if s not in cache:
         material = case.library.printed_material(s.material)
         try:
             if s.shape == "round":
-                cache[s] = printed_round(material, s.width_mm, s.settings).beam
+                cache[s] = printed_round(material, s.width_mm, s.settings)
             else:
-                cache[s] = printed_rectangle(material, s.width_mm, s.depth_mm, s.settings).beam
+                cache[s] = printed_rectangle(material, s.width_mm, s.depth_mm, s.settings)
         except ModelError as err:
             raise CaseError(case.file, f"parts.{part.name}.section", str(err)) from None
     return cache[s]
 
 
-def part_sections(case: Case) -> list[tuple[Part, tuple[str, str], BeamSection]]:
-    """Every member of every part with its section."""
-    cache: dict[Section, BeamSection] = {}
-    out: list[tuple[Part, tuple[str, str], BeamSection]] = []
+Member = tuple[Part, tuple[str, str], BeamSection, "PrintedSection | None"]
+
+
+def part_sections(case: Case) -> list[Member]:
+    """Every member of every part with its beam section (and printed section, if printed)."""
+    cache: dict[Section, PrintedSection] = {}
+    out: list[Member] = []
     for part in case.parts:
         if part.kind == "tube":
             assert part.tube_material and part.od_mm is not None and part.id_mm is not None
@@ -82,10 +88,11 @@ def part_sections(case: Case) -> list[tuple[Part, tuple[str, str], BeamSection]]
                         if part.tube_material in lib.names("tube")
                         else lib.metal(part.tube_material))
             bs = tube_section(part.od_mm, part.id_mm, material)
-            out.extend((part, seg, bs) for seg in part.segments)
+            out.extend((part, seg, bs, None) for seg in part.segments)
         else:
-            out.extend((part, seg, _section(case, part, sec, cache))
-                       for seg, sec in zip(part.segments, part.sections, strict=True))
+            for seg, sec in zip(part.segments, part.sections, strict=True):
+                ps = _section(case, part, sec, cache)
+                out.append((part, seg, ps.beam, ps))
     return out
 
 
@@ -188,8 +195,8 @@ def build(case: Case, pose: Pose) -> Built:
         return node_of[(part, n)]
 
     members = part_sections(case)
-    conn = [[node(p.name, a), node(p.name, b)] for p, (a, b), _ in members]
-    at_node = {(p.name, n): bs for p, seg, bs in members for n in seg}
+    conn = [[node(p.name, a), node(p.name, b)] for p, (a, b), _, _ in members]
+    at_node = {(p.name, n): bs for p, seg, bs, _ in members for n in seg}
 
     c_nodes, c_k, c_joint, c_act, c_names, basis = [], [], [], [], [], []
     for j in case.joints:
@@ -226,12 +233,12 @@ def build(case: Case, pose: Pose) -> Built:
     for (part, _), i in node_of.items():
         fixed[i] = part == BODY
 
-    sec = [bs for _, _, bs in members]
+    sec = [bs for _, _, bs, _ in members]
     beams = Beams.make(conn, E=[s.E_MPa for s in sec], G=[s.G_MPa for s in sec],
                        A=[s.A_mm2 for s in sec], Iy=[s.Iy_mm4 for s in sec],
                        Iz=[s.Iz_mm4 for s in sec], J=[s.J_mm4 for s in sec],
                        Asy=[s.Asy_mm2 for s in sec], Asz=[s.Asz_mm2 for s in sec],
-                       names=tuple(f"{p.name} {a}-{b}" for p, (a, b), _ in members))
+                       names=tuple(f"{p.name} {a}-{b}" for p, (a, b), _, _ in members))
     connectors = Connectors.make(np.reshape(c_nodes, (-1, 2)), np.reshape(c_k, (-1, 6)),
                                  names=tuple(c_names)) if c_nodes else None
     springs = Springs.make(np.reshape(s_nodes, (-1, 2)), s_rate, s_tension,
@@ -239,7 +246,9 @@ def build(case: Case, pose: Pose) -> Built:
     model = FrameModel.make(np.array(xyz), node_names=tuple(names), beams=beams,
                             connectors=connectors, springs=springs, fixed=fixed)
     return Built(model=model, node_of=node_of, foot=foot,
-                 beam_part=tuple(p.name for p, _, _ in members), beam_sections=tuple(sec),
+                 beam_part=tuple(p.name for p, _, _, _ in members), beam_sections=tuple(sec),
+                 beam_printed=tuple(ps for _, _, _, ps in members),
+                 beam_segment=tuple(seg for _, seg, _, _ in members),
                  connector_joint=tuple(c_joint), connector_actuator=tuple(c_act),
                  spring_names=tuple(s.name for s in case.springs),
                  spring_length_mm=tuple(s_len), stiffness_basis=tuple(basis),

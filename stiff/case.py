@@ -25,6 +25,7 @@ from stiff.case_model import (
     Targets,
 )
 from stiff.case_reader import Field, Reader, at_least, choice, positive
+from stiff.checks.allowables import read_factors
 from stiff.errors import CaseError, MaterialError, ModelError
 from stiff.material_tables import MATERIAL_KINDS
 from stiff.materials import MaterialLibrary, load_library
@@ -46,6 +47,7 @@ TOP = {
     "targets": Field("table"),
     "materials": Field("table"),
     "materials_file": Field("str"),
+    "factors": Field("table"),
 }
 NODE = {"x_mm": Field("float", required=True), "y_mm": Field("float", required=True)}
 BODY_TABLE = {"nodes": Field("names", required=True), "z_mm": Field("float")}
@@ -118,6 +120,7 @@ def parse_case(text: str, path: Path | None = None,
     _check_foot(reader, foot, parts)
     _check_connected(reader, parts, joints)
     angles, foot_target = _pose(reader, top.get("pose"), actuators)
+    targets = Targets(**reader.table("targets", top.get("targets", {}), TARGETS))
     return Case(
         file=path, title=top["title"], description=top.get("description", ""),
         nodes=nodes, body_nodes=body_nodes, body_z_mm=float(body.get("z_mm", 0.0)),
@@ -125,7 +128,8 @@ def parse_case(text: str, path: Path | None = None,
         pose_angles_rad=angles, pose_foot_mm=foot_target,
         loads=read_loads(reader, top.get("loads", {}), {p.name: p.nodes for p in parts},
                          tuple(a.name for a in actuators)),
-        targets=Targets(**reader.table("targets", top.get("targets", {}), TARGETS)),
+        targets=targets,
+        factors=read_factors(reader, top.get("factors", {}), targets.min_safety_factor),
         library=lib)
 
 

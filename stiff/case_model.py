@@ -8,6 +8,7 @@ from pathlib import Path
 from typing import Literal
 
 from stiff.case_loads import Loads
+from stiff.checks.allowables import RequiredFactors
 from stiff.materials import MaterialLibrary
 from stiff.printed_sections import PrintSettings
 
@@ -157,6 +158,7 @@ class Case:
     pose_foot_mm: tuple[float, float] | None
     loads: Loads
     targets: Targets
+    factors: RequiredFactors
     library: MaterialLibrary = field(repr=False)
 
     def part(self, name: str) -> Part:
