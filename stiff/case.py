@@ -25,8 +25,8 @@ from stiff.case_model import (
     Targets,
 )
 from stiff.case_reader import Field, Reader, at_least, choice, positive
-from stiff.checks.allowables import read_factors
 from stiff.errors import CaseError, MaterialError, ModelError
+from stiff.factors import read_factors
 from stiff.material_tables import MATERIAL_KINDS
 from stiff.materials import MaterialLibrary, load_library
 from stiff.printed_sections import PrintSettings
@@ -82,6 +82,8 @@ TARGETS = {
     "max_lateral_deflection_mm": positive(),
     "min_safety_factor": positive(),
     "deflection_cases": Field("names"),
+    "max_play_mm": positive(help="worst-case foot play from the pins' clearance, in the plane"),
+    "max_lateral_play_mm": positive(help="worst-case foot play out of the linkage plane"),
 }
 MATERIAL_ENTRY_KIND = {"kind": choice(*MATERIAL_KINDS, required=True)}
 

@@ -8,7 +8,7 @@ from pathlib import Path
 from typing import Literal
 
 from stiff.case_loads import Loads
-from stiff.checks.allowables import RequiredFactors
+from stiff.factors import RequiredFactors
 from stiff.materials import MaterialLibrary
 from stiff.printed_sections import PrintSettings
 
@@ -137,6 +137,8 @@ class Targets:
     max_lateral_deflection_mm: float | None = None
     min_safety_factor: float | None = None
     deflection_cases: tuple[str, ...] | None = None  # load cases the deflection targets apply to
+    max_play_mm: float | None = None  # worst-case foot play in the linkage plane (stiff.play)
+    max_lateral_play_mm: float | None = None  # worst-case foot play out of the plane
 
 
 @dataclass(frozen=True)
