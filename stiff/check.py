@@ -17,12 +17,14 @@ import numpy as np
 
 from stiff.build import Built, build
 from stiff.case_model import Case
+from stiff.checks import run_checks
+from stiff.checks.base import CheckRecord, governing, worst_first
+from stiff.checks.context import CheckContext
 from stiff.errors import CaseError, PoseError
 from stiff.kinematics import Linkage, Pose, foot_jacobian, solve_pose
 from stiff.landing import LandingResult
 from stiff.linkage import case_pose, linkage
 from stiff.loads import (
-    STATIC_CASES,
     LoadCaseResult,
     landing,
     load_cases,
@@ -30,21 +32,6 @@ from stiff.loads import (
     weight_on_leg_N,
 )
 from stiff.stiffness import FootStiffness, foot_stiffness
-
-
-@dataclass(frozen=True)
-class TargetCheck:
-    """A deflection target against its value."""
-
-    name: str
-    load_case: str
-    demand_mm: float
-    limit_mm: float
-
-    @property
-    def met(self) -> bool:
-        """True when the deflection is within the limit."""
-        return self.demand_mm <= self.limit_mm
 
 
 @dataclass(frozen=True)
@@ -59,13 +46,18 @@ class CheckResult:
     stiffness: FootStiffness
     landing: LandingResult | None
     load_cases: tuple[LoadCaseResult, ...]
-    targets: tuple[TargetCheck, ...]
+    checks: tuple[CheckRecord, ...]
     warnings: tuple[str, ...]
 
     @property
     def all_met(self) -> bool:
-        """True when every target is met."""
-        return all(t.met for t in self.targets)
+        """True when every check and target reaches its required factor."""
+        return all(c.status == "met" for c in self.checks)
+
+    @property
+    def governing(self) -> list[CheckRecord]:
+        """The governing check of every item, worst first."""
+        return worst_first(governing(self.checks).values())
 
 
 def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
@@ -86,29 +78,6 @@ def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
         raise CaseError(case.file, "loads.landing_angles_deg",
                         f"the leg cannot reach this landing pose: {err}") from None
     return pose, build(case, pose)
-
-
-def _targets(case: Case, results: tuple[LoadCaseResult, ...]) -> list[TargetCheck]:
-    """Deflection targets in the load cases they apply to (the static ones by default)."""
-    out = []
-    t = case.targets
-    names = t.deflection_cases or STATIC_CASES
-    known = [r.name for r in results]
-    for n in t.deflection_cases or ():
-        if n not in known:
-            raise CaseError(case.file, "targets.deflection_cases", f"no load case '{n}' "
-                            f"(the load cases are: {', '.join(known)})")
-    for r in results:
-        if r.case.foot_held or r.name not in names:
-            continue
-        dx, dy, dz = r.foot_deflection_mm
-        if t.max_foot_deflection_mm is not None:
-            out.append(TargetCheck("foot deflection in the linkage plane", r.name,
-                                   math.hypot(dx, dy), t.max_foot_deflection_mm))
-        if t.max_lateral_deflection_mm is not None:
-            out.append(TargetCheck("lateral foot deflection", r.name, abs(dz),
-                                   t.max_lateral_deflection_mm))
-    return out
 
 
 def _warnings(results: tuple[LoadCaseResult, ...], land: LandingResult | None) -> list[str]:
@@ -150,8 +119,10 @@ def run_check(case: Case) -> CheckResult:
     if case.loads.robot_mass_t is None and case.loads.payload_t is None:
         warnings.append(weight_on_leg_N(case)[1])
     warnings += _warnings(results, land)
+    records, check_warnings = run_checks(CheckContext(case, built, results))
+    warnings += check_warnings
     xy = pose.node_xy_mm[foot_index]
     return CheckResult(
         case=case, pose=pose, built=built, foot_xy_mm=(float(xy[0]), float(xy[1])),
         foot_jacobian_mm_per_rad=jacobian, stiffness=foot_stiffness(built), landing=land,
-        load_cases=results, targets=tuple(_targets(case, results)), warnings=tuple(warnings))
+        load_cases=results, checks=records, warnings=tuple(warnings))

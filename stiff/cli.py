@@ -277,7 +277,8 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
     if as_json:
         click.echo(json.dumps(results_dict(result), indent=2, ensure_ascii=False))
     elif quiet:
-        verdict = "all targets met" if result.all_met else "a target is not met"
+        verdict = ("all checks and targets met" if result.all_met
+                   else "a check or target is not met")
         click.echo(f"{result.case.title}: {verdict}")
     else:
         click.echo("\n".join(summary_lines(result)))

@@ -1,5 +1,26 @@
 """Failure checks: lugs, printed segments, tubes, sockets, pins, actuators, springs, targets.
 
-``run_checks(ctx)`` runs every check module over every load case and returns the records;
-each module has one function ``checks(ctx) -> list[CheckRecord]``.
+``run_checks(ctx)`` runs every check module over every load case; each module has
+``checks(ctx) -> list[CheckRecord]`` and some ``warnings(ctx) -> list[str]``.
 """
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+from stiff.checks import duty, segments
+from stiff.checks.base import CheckRecord
+from stiff.checks.context import CheckContext
+
+CHECKS: tuple[Callable[[CheckContext], list[CheckRecord]], ...] = (
+    segments.checks,
+    duty.checks,
+)
+WARNINGS: tuple[Callable[[CheckContext], list[str]], ...] = ()
+
+
+def run_checks(ctx: CheckContext) -> tuple[tuple[CheckRecord, ...], tuple[str, ...]]:
+    """Every check record and every check warning of a solved case."""
+    records = tuple(r for check in CHECKS for r in check(ctx))
+    warnings = tuple(w for warn in WARNINGS for w in warn(ctx))
+    return records, warnings

@@ -18,10 +18,10 @@ overrides them; ``targets.min_safety_factor`` raises every one to at least its v
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
-from typing import Any, Literal
+from dataclasses import dataclass
 
-from stiff.case_reader import Field, Reader, positive
+from stiff.errors import MaterialError
+from stiff.factors import FACTORS, FailureKind, RequiredFactors, read_factors
 from stiff.materials import PrintedMaterial
 from stiff.strength import (
     ROOM_TEMPERATURE_C,
@@ -32,20 +32,8 @@ from stiff.strength import (
     sustained,
 )
 
-FailureKind = Literal["in_layer", "across_layers", "tube", "buckling", "pin", "adhesive",
-                      "actuator", "spring"]
-
-FACTORS = {
-    "in_layer": positive(),
-    "across_layers": positive(),
-    "tube": positive(),
-    "buckling": positive(),
-    "pin": positive(),
-    "adhesive": positive(),
-    "actuator": positive(),
-    "spring": positive(),
-    "samples": Field("int", low=2),
-}
+__all__ = ["FACTORS", "Duty", "FailureKind", "RequiredFactors", "duty", "printed_allowable",
+           "read_factors"]
 
 #: Load cases whose loads are held for a long time (creep), and those repeated every step or
 #: hop (fatigue).
@@ -54,35 +42,6 @@ REPEATED_PREFIXES = ("landing", "slip")
 #: Cycles from which the fatigue fraction applies (common practice: below about 10⁴ cycles a
 #: static allowable with its factor covers low-cycle loading).
 FATIGUE_FROM_CYCLES = 1e4
-
-
-@dataclass(frozen=True)
-class RequiredFactors:
-    """Required safety factor per kind of failure (defaults: common practice, see module)."""
-
-    in_layer: float = 1.5
-    across_layers: float = 2.0
-    tube: float = 1.5
-    buckling: float = 2.0
-    pin: float = 1.5
-    adhesive: float = 2.0
-    actuator: float = 1.0
-    spring: float = 1.0
-    samples: int | None = None  # tests behind the table's means (None: a known population)
-
-    def of(self, kind: FailureKind) -> float:
-        """The required factor of a kind of failure."""
-        value: float = getattr(self, kind)
-        return value
-
-
-def read_factors(reader: Reader, data: object, floor: float | None) -> RequiredFactors:
-    """The case's [factors] table (and the targets' minimum factor) over the defaults."""
-    v: dict[str, Any] = reader.table("factors", data, FACTORS)
-    out = RequiredFactors(**v)
-    if floor is not None:
-        out = replace(out, **{k: max(getattr(out, k), floor) for k in FACTORS if k != "samples"})
-    return out
 
 
 @dataclass(frozen=True)
@@ -107,7 +66,14 @@ def printed_allowable(mean: Allowable, material: PrintedMaterial, across_layers:
     """A printed part's allowable from its mean: temperature, B-basis, sustained or fatigue."""
     out = mean
     if d.temperature_C is not None and d.temperature_C > ROOM_TEMPERATURE_C:
-        out = at_temperature(out, material, d.temperature_C)
+        try:
+            out = at_temperature(out, material, d.temperature_C)
+        except MaterialError as err:
+            if d.temperature_C >= material.T_glass_C:
+                raise
+            out = out.scaled(1.0, f"no strength retention at {d.temperature_C:g} °C in the "
+                                  f"table ({err.why}): the room-temperature value is used; "
+                                  "test the part at its service temperature")
     out = printed_b_basis(out, material, across_layers, samples)
     if d.sustained:
         out = sustained(out, material)

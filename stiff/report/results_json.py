@@ -17,6 +17,7 @@ import numpy as np
 from stiff import __version__
 from stiff.cautions import CAUTIONS
 from stiff.check import CheckResult
+from stiff.checks.base import CheckRecord, worst_first
 from stiff.errors import StiffError
 from stiff.report.tables import write_tables
 from stiff.stiffness import Share
@@ -36,6 +37,23 @@ def _vec(v: Any) -> list[float | None]:
 
 def _shares(shares: tuple[Share, ...]) -> list[dict[str, Any]]:
     return [{"name": s.name, "kind": s.kind, "share": _num(s.share)} for s in shares]
+
+
+def _check(c: CheckRecord) -> dict[str, Any]:
+    return {
+        "item": c.item,
+        "kind": c.kind,
+        "mode": c.mode,
+        "load_case": c.load_case,
+        "demand": _num(c.demand),
+        "capacity": _num(c.capacity),
+        "unit": c.unit,
+        "safety_factor": _num(c.safety_factor),
+        "required_factor": _num(c.required_factor),
+        "status": c.status,
+        "basis": c.basis,
+        "suggestion": c.suggestion,
+    }
 
 
 def _landing(result: CheckResult) -> dict[str, Any]:
@@ -103,15 +121,9 @@ def results_dict(result: CheckResult) -> dict[str, Any]:
                          "max_length_mm": None if sp.max_length_mm is None
                          else _num(sp.max_length_mm)} for sp in lc.springs],
         } for lc in result.load_cases],
-        "checks": [{
-            "item": "foot",
-            "mode": t.name,
-            "load_case": t.load_case,
-            "demand_mm": _num(t.demand_mm),
-            "capacity_mm": _num(t.limit_mm),
-            "status": "met" if t.met else "not met",
-            "basis": "target from the case",
-        } for t in result.targets],
+        "checks": [_check(c) for c in worst_first(result.checks)],
+        "governing": {c.item: _check(c) for c in result.governing},
+        "all_met": result.all_met,
         "joint_stiffness_basis": list(result.built.stiffness_basis),
         "actuator_stiffness_basis": {a.name: a.stiffness_basis for a in case.actuators},
         "warnings": list(result.warnings),

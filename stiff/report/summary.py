@@ -8,6 +8,9 @@ from stiff.cautions import CAUTIONS
 from stiff.check import CheckResult
 from stiff.units import rad_to_deg
 
+#: Governing checks shown in the summary; results.json has them all.
+MAX_ITEMS = 15
+
 
 def _direction(v: object) -> str:
     x, y, z = (float(c) for c in v)  # type: ignore[attr-defined]
@@ -55,12 +58,17 @@ def summary_lines(result: CheckResult, *, cautions: bool = True) -> list[str]:
                        f"{a.stall_torque_Nmm / 1e3:.3g} N·m stall (margin {margin})")
         for sp in lc.springs:
             out.append(f"  spring {sp.name}: {sp.force_N:.2f} N at {sp.length_mm:.1f} mm")
-    if result.targets:
+    if result.checks:
         out.append("")
-        for t in sorted(result.targets, key=lambda t: t.limit_mm / max(t.demand_mm, 1e-300)):
-            status = "met" if t.met else "NOT MET"
-            out.append(f"target {t.name} ({t.load_case}): {t.demand_mm:.3f} mm against "
-                       f"{t.limit_mm:g} mm: {status}")
+        out.append("governing check of each item, worst first (safety factor / required):")
+        for c in result.governing[:MAX_ITEMS]:
+            sf = "∞" if math.isinf(c.safety_factor) else f"{c.safety_factor:.2f}"
+            out.append(f"  {c.status.upper() if c.status != 'met' else 'met':9s} {c.item}: "
+                       f"{c.mode} in {c.load_case}: {c.demand:.3g} of {c.capacity:.3g} {c.unit}"
+                       f" (factor {sf} / {c.required_factor:g})")
+        hidden = len(result.governing) - MAX_ITEMS
+        if hidden > 0:
+            out.append(f"  ... and {hidden} more items, all in results.json")
     if result.warnings:
         out.append("")
         out.extend(f"warning: {w}" for w in result.warnings)
