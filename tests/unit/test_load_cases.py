@@ -88,3 +88,13 @@ def test_landing_pose_of_its_own() -> None:
     result = run_check(parse_case(text, Path("leg.toml")))
     assert result.landing is not None
     assert {lc.name for lc in result.load_cases} >= {"stance", "landing", "slip fore"}
+
+
+def test_static_loads_of_the_case() -> None:
+    text = demo_with("robot_mass_kg = 1.6\nlegs = 4\n\n[[loads.static]]\nname = \"bump\"\n"
+                     "node = \"foot\"\nforce_N = [0.0, 0.0, 5.0]\n")
+    result = run_check(parse_case(text, Path("leg.toml")))
+    bump = next(lc for lc in result.load_cases if lc.name == "bump")
+    lateral = result.stiffness.lateral_mm_per_N
+    # 5 N sideways, no preload: the foot moves 5 N times its lateral compliance
+    assert bump.foot_deflection_mm[2] == pytest.approx(5.0 * lateral, rel=1e-9)
