@@ -25,6 +25,7 @@ from stiff.errors import (
 from stiff.materials import MaterialLibrary, load_library
 from stiff.printed_sections import PrintSettings, printed_rectangle, printed_round
 from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS, check_build_direction, check_pattern
+from stiff.report.document import write_report
 from stiff.report.results_json import results_dict, write_results
 from stiff.report.summary import summary_lines
 from stiff.report_text import material_detail, materials_list, section_comparison
@@ -272,6 +273,7 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
             raise CaseError(path, "(file)", "no such case file")
         result = run_check(load_case(path))
         written = write_results(result, out_dir) if out_dir is not None else None
+        report = write_report(result, out_dir) if out_dir is not None else None
     except StiffError as err:
         raise _command_error(err) from err
     if as_json:
@@ -284,5 +286,6 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
         click.echo("\n".join(summary_lines(result)))
     if written is not None and not as_json:
         click.echo(f"results: {written}")
+        click.echo(f"report: {report}")
     ctx.exit(EXIT_OK if result.all_met else EXIT_CHECK_FAILED)
 

@@ -85,8 +85,9 @@ class LandingResult:
     time_to_peak_s: float
     events: tuple[str, ...]  # stages entered during the landing (saturation, bottoming out)
     damping_ratio: float
-    time_s: tuple[float, ...]  # the force history, for plots
+    time_s: tuple[float, ...]  # the force and stroke histories, for plots
     force_N: tuple[float, ...]
+    history_stroke_mm: tuple[float, ...]
 
     @property
     def weight_N(self) -> float:
@@ -151,4 +152,5 @@ def simulate_landing(mass_t: float, drop_height_mm: float, curve: ForceCurve,
         peak_N=peak, stroke_mm=x_stop,
         time_to_peak_s=float(times[i_peak]) if forces[i_peak] >= peak else t_stop,
         events=tuple(events), damping_ratio=damping_ratio,
-        time_s=tuple(float(t) for t in times), force_N=tuple(float(f) for f in forces))
+        time_s=tuple(float(t) for t in times), force_N=tuple(float(f) for f in forces),
+        history_stroke_mm=tuple(float(x) for x in xs))

@@ -1,4 +1,4 @@
-"""CSV tables beside results.json: one row a load case, one row a compliance share."""
+"""CSV tables beside results.json: load cases, compliance shares, checks."""
 
 from __future__ import annotations
 
@@ -6,6 +6,7 @@ import csv
 from pathlib import Path
 
 from stiff.check import CheckResult
+from stiff.checks.base import worst_first
 
 
 def load_case_rows(result: CheckResult) -> list[dict[str, object]]:
@@ -38,6 +39,14 @@ def compliance_rows(result: CheckResult) -> list[dict[str, object]]:
             for s in shares]
 
 
+def check_rows(result: CheckResult) -> list[dict[str, object]]:
+    """Every check, worst first."""
+    return [{"item": c.item, "kind": c.kind, "mode": c.mode, "load_case": c.load_case,
+             "demand": c.demand, "capacity": c.capacity, "unit": c.unit,
+             "safety_factor": c.safety_factor, "required_factor": c.required_factor,
+             "status": c.status, "basis": c.basis} for c in worst_first(result.checks)]
+
+
 def write_csv(path: Path, rows: list[dict[str, object]]) -> Path:
     """Write rows (dicts with possibly different keys) as one CSV with the union of columns."""
     columns: list[str] = []
@@ -51,6 +60,7 @@ def write_csv(path: Path, rows: list[dict[str, object]]) -> Path:
 
 
 def write_tables(result: CheckResult, out_dir: Path) -> list[Path]:
-    """load_cases.csv and compliance.csv in ``out_dir`` (which must exist)."""
+    """load_cases.csv, compliance.csv and checks.csv in ``out_dir`` (which must exist)."""
     return [write_csv(out_dir / "load_cases.csv", load_case_rows(result)),
-            write_csv(out_dir / "compliance.csv", compliance_rows(result))]
+            write_csv(out_dir / "compliance.csv", compliance_rows(result)),
+            write_csv(out_dir / "checks.csv", check_rows(result))]
