@@ -271,9 +271,16 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
             raise CaseError(path, "(file)", "is a folder, not a case file")
         if not path.is_file():
             raise CaseError(path, "(file)", "no such case file")
-        result = run_check(load_case(path))
-        written = write_results(result, out_dir) if out_dir is not None else None
-        report = write_report(result, out_dir) if out_dir is not None else None
+        with click.progressbar(length=3 if out_dir is not None else 1, label="checking",
+                               file=sys.stderr, hidden=quiet or as_json) as bar:
+            result = run_check(load_case(path))
+            bar.update(1)
+            written = report = None
+            if out_dir is not None:
+                written = write_results(result, out_dir)
+                bar.update(1)
+                report = write_report(result, out_dir)
+                bar.update(1)
     except StiffError as err:
         raise _command_error(err) from err
     if as_json:
