@@ -272,7 +272,8 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
         if not path.is_file():
             raise CaseError(path, "(file)", "no such case file")
         with click.progressbar(length=3 if out_dir is not None else 1, label="checking",
-                               file=sys.stderr, hidden=quiet or as_json) as bar:
+                               file=sys.stderr,
+                               hidden=quiet or as_json or not sys.stderr.isatty()) as bar:
             result = run_check(load_case(path))
             bar.update(1)
             written = report = None
