@@ -24,9 +24,9 @@ stiffness is its axial stiffness over the bond's circumference, E t = E A/(π d)
 the tube, E_axial and t₁ = π(D² − d_i²)/4/(π D) (close to the wall (D − d_i)/2 for a thin
 wall); adherend 2 is the printed socket round the bore, with the printed section's smeared
 modulus EA/A_outline (walls, skins and infill together: softer than the solid, which raises
-the peak, so conservative) and t₂ = (A_outline − πD²/4)/(π D). A section that leaves no wall
-round the tube is refused (no checks, a warning); a wall thinner than :data:`MIN_WALL_MM` at
-its thinnest is warned about. Torsion has the same shear lag with the shear moduli.
+the peak, so conservative) and t₂ = (A_outline − πD²/4)/(π D). A section too narrow for the
+tube is refused (no checks, a warning); a wall thinner than :data:`MIN_WALL_MM` at its
+thinnest is warned about. Torsion has the same shear lag with the shear moduli.
 Defaults (common practice): bondline 0.1 mm where the case gives none
 (:data:`DEFAULT_BONDLINE_MM`), friction 0.2 (:data:`DEFAULT_FRICTION`, low end of dry polymer
 on carbon/epoxy). A clamped socket without ``clamp_force_N`` gets no friction check, and a
@@ -373,7 +373,7 @@ def checks(ctx: CheckContext) -> list[CheckRecord]:
         forces = member_forces(ctx, result)
         for site in found:
             f = socket_forces(site, forces)
-            if f is None or site.ring_mm <= 0.0:
+            if f is None or site.wall_mm <= 0.0:
                 continue
             if site.socket.fixing == "bonded":
                 out += _bonded(ctx, site, result, f)
@@ -396,9 +396,9 @@ def warnings(ctx: CheckContext) -> list[str]:
                        "pressure grows as 1/L²); engage it at least one diameter")
         size = (f"{s.printed}'s section ({site.printed.width_mm:g} × "
                 f"{site.printed.depth_mm:g} mm)")
-        if site.ring_mm <= 0.0:
-            out.append(f"{where}: {size} leaves no wall round the {tube.od_mm:g} mm tube: "
-                       "the socket is not checked; widen it")
+        if site.wall_mm <= 0.0:
+            out.append(f"{where}: {size} leaves no wall round the {tube.od_mm:g} mm tube (it "
+                       "does not fit): the socket is not checked; widen it")
         elif site.wall_mm < MIN_WALL_MM:
             out.append(f"{where}: {size} leaves a wall of {max(site.wall_mm, 0.0):.3g} mm at "
                        f"its thinnest round the {tube.od_mm:g} mm tube, under {MIN_WALL_MM:g} mm: "
