@@ -31,6 +31,7 @@ from stiff.loads import (
     solve_load_cases,
     weight_on_leg_N,
 )
+from stiff.play_modes import PlayAndModes, play_and_modes
 from stiff.stiffness import FootStiffness, foot_stiffness
 
 
@@ -47,12 +48,13 @@ class CheckResult:
     landing: LandingResult | None
     load_cases: tuple[LoadCaseResult, ...]
     checks: tuple[CheckRecord, ...]
+    dynamics: PlayAndModes
     warnings: tuple[str, ...]
 
     @property
     def all_met(self) -> bool:
-        """True when every check and target reaches its required factor."""
-        return all(c.status == "met" for c in self.checks)
+        """True when every check and target (play targets too) reaches its required factor."""
+        return all(c.status == "met" for c in self.checks) and self.dynamics.all_met
 
     @property
     def governing(self) -> list[CheckRecord]:
@@ -125,4 +127,5 @@ def run_check(case: Case) -> CheckResult:
     return CheckResult(
         case=case, pose=pose, built=built, foot_xy_mm=(float(xy[0]), float(xy[1])),
         foot_jacobian_mm_per_rad=jacobian, stiffness=foot_stiffness(built), landing=land,
-        load_cases=results, checks=records, warnings=tuple(warnings))
+        load_cases=results, checks=records, dynamics=play_and_modes(case, built, pose),
+        warnings=tuple(warnings))

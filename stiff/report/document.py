@@ -37,6 +37,7 @@ FIGURES: tuple[tuple[str, str, Callable[[CheckResult, Axes | None], Axes]], ...]
      plots.safety_factors),
     ("landing", "Landing: foot force and stroke against time", plots.landing),
     ("actuators", "Actuator torque demand against stall", plots.actuator_demand),
+    ("modes", "The lowest natural modes of the leg held at the body", plots.lowest_modes),
 )
 
 
@@ -193,6 +194,7 @@ def sections(result: CheckResult) -> list[Section]:
                 rows=cases),
         Section("Where the give comes from", head=("element", "kind", "share", "unit load"),
                 rows=shares),
+        _dynamics(result),
         Section("Every check, with the basis of its capacity", head=(
             "item", "mode", "load case", "demand", "capacity", "factor", "required", "status",
             "basis"), rows=every),
@@ -205,6 +207,30 @@ def sections(result: CheckResult) -> list[Section]:
         Section("Joint and actuator stiffness", head=("how it was obtained",), rows=basis),
         Section("Warnings", tuple(result.warnings) or ("none",)),
     ]
+
+
+def _dynamics(result: CheckResult) -> Section:
+    """Joint play at the foot and the lowest natural frequencies."""
+    d = result.dynamics
+    p, m = d.play, d.modes
+    paragraphs = (
+        f"Foot play from pin clearances, apart from the elastic deflection: "
+        f"{p.in_plane_worst_mm:.3g} mm worst case in the plane (root-sum-square "
+        f"{p.in_plane_rss_mm:.3g} mm), {p.out_of_plane_worst_mm:.3g} mm out of it (RSS "
+        f"{p.out_of_plane_rss_mm:.3g} mm). Play does not grow with load: tighter bores and "
+        "longer bearings cure it, not more walls.",
+        "Lowest natural frequencies: " + "; ".join(
+            f"{md.frequency_Hz:.3g} Hz ({md.kind})" for md in m.modes[:4]) +
+        f". Moving mass {m.mass.moving_t * 1e6:.3g} g; effective mass at the foot "
+        f"{m.foot_effective_mass_t * 1e6:.3g} g.",
+    )
+    rows = tuple((j.name, f"{j.clearance_mm:g}", f"{j.bearing_length_mm:.3g}",
+                  f"{j.in_plane_mm:.3g}", f"{j.out_of_plane_mm:.3g}",
+                  f"{100 * j.share_in_plane:.0f} % / {100 * j.share_out_of_plane:.0f} %")
+                 for j in p.joints)
+    return Section("Joint play and natural frequencies", paragraphs, head=(
+        "joint", "radial clearance [mm]", "bearing length [mm]", "in-plane play [mm]",
+        "out-of-plane play [mm]", "share in / out of plane"), rows=rows)
 
 
 _STYLE = """

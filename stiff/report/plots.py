@@ -191,3 +191,22 @@ def actuator_demand(result: CheckResult, ax: Axes | None = None) -> Axes:
     ax.set_ylabel("torque demand [N·m]")
     ax.set_title("actuator torque against stall (red: back-driven)", fontsize=9)
     return ax
+
+
+def lowest_modes(result: CheckResult, ax: Axes | None = None) -> Axes:
+    """The lowest in-plane and out-of-plane mode shapes, side by side on one axes pair."""
+    from stiff.modes import plot_mode
+
+    modes = result.dynamics.modes.modes
+    picked = [next((m for m in modes if m.kind == k), None) for k in ("in-plane", "out-of-plane")]
+    shown = [m for m in picked if m is not None]
+    if ax is None:
+        _, axes = plt.subplots(1, max(len(shown), 1), figsize=(8.0, 4.0))
+        axs = list(np.atleast_1d(axes))
+    else:
+        axs = [ax]
+    for a, m in zip(axs, shown, strict=False):
+        plot_mode(result.built, m, a)
+        a.set_title(f"lowest {m.kind} mode: {m.frequency_Hz:.3g} Hz", fontsize=9)
+    out: Axes = axs[0]
+    return out

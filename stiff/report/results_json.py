@@ -19,6 +19,7 @@ from stiff.cautions import CAUTIONS
 from stiff.check import CheckResult
 from stiff.checks.base import CheckRecord, worst_first
 from stiff.errors import StiffError
+from stiff.play_modes import results_section
 from stiff.report.tables import write_tables
 from stiff.stiffness import Share
 from stiff.units import rad_to_deg
@@ -105,6 +106,7 @@ def results_dict(result: CheckResult) -> dict[str, Any]:
         "compliance_breakdown": {"vertical": _shares(st.vertical),
                                  "lateral": _shares(st.lateral)},
         "landing": None if result.landing is None else _landing(result),
+        **results_section(result.dynamics),
         "load_cases": [{
             "name": lc.name,
             "description": lc.case.description,

@@ -6,6 +6,7 @@ import math
 
 from stiff.cautions import CAUTIONS
 from stiff.check import CheckResult
+from stiff.play_modes import summary_lines as dynamics_lines
 from stiff.units import rad_to_deg
 
 #: Governing checks shown in the summary; results.json has them all.
@@ -38,6 +39,8 @@ def summary_lines(result: CheckResult, *, cautions: bool = True) -> list[str]:
         top = [s for s in shares if s.share >= 0.01][:5]
         text = ", ".join(f"{s.name} ({s.kind}) {100 * s.share:.0f} %" for s in top)
         out.append(f"where the {label} give comes from: {text}")
+    out.append("")
+    out.extend(dynamics_lines(result.dynamics))
     out.append("")
     land = result.landing
     if land is not None:
