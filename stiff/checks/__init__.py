@@ -8,15 +8,17 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from stiff.checks import duty, segments
+from stiff.checks import duty, segments, sockets, tubes
 from stiff.checks.base import CheckRecord
 from stiff.checks.context import CheckContext
 
 CHECKS: tuple[Callable[[CheckContext], list[CheckRecord]], ...] = (
     segments.checks,
+    tubes.checks,
+    sockets.checks,
     duty.checks,
 )
-WARNINGS: tuple[Callable[[CheckContext], list[str]], ...] = ()
+WARNINGS: tuple[Callable[[CheckContext], list[str]], ...] = (tubes.warnings, sockets.warnings)
 
 
 def run_checks(ctx: CheckContext) -> tuple[tuple[CheckRecord, ...], tuple[str, ...]]:
