@@ -8,17 +8,20 @@ from __future__ import annotations
 
 from collections.abc import Callable
 
-from stiff.checks import duty, segments, sockets, tubes
+from stiff.checks import duty, lugs, pins, segments, sockets, tubes
 from stiff.checks.base import CheckRecord
 from stiff.checks.context import CheckContext
 
 CHECKS: tuple[Callable[[CheckContext], list[CheckRecord]], ...] = (
+    lugs.checks,
+    pins.checks,
     segments.checks,
     tubes.checks,
     sockets.checks,
     duty.checks,
 )
-WARNINGS: tuple[Callable[[CheckContext], list[str]], ...] = (tubes.warnings, sockets.warnings)
+WARNINGS: tuple[Callable[[CheckContext], list[str]], ...] = (
+    lugs.warnings, pins.warnings, tubes.warnings, sockets.warnings)
 
 
 def run_checks(ctx: CheckContext) -> tuple[tuple[CheckRecord, ...], tuple[str, ...]]:
