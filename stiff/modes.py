@@ -55,6 +55,7 @@ from stiff.errors import ModelError
 from stiff.fe import FrameModel, assemble_model, node_dofs
 from stiff.fe.assemble import beam_matrices
 from stiff.fe.element import to_global
+from stiff.fe.solve import Assembled
 from stiff.play import bearing_length_mm
 
 if TYPE_CHECKING:
@@ -152,15 +153,17 @@ class Eigen:
     in_plane_fraction: FloatArray  # (m,) kinetic energy share in ux, uy, rz
 
 
-def natural_modes(model: FrameModel, M: FloatArray, count: int = 6) -> Eigen:
+def natural_modes(model: FrameModel, M: FloatArray, count: int = 6,
+                  fac: Assembled | None = None) -> Eigen:
     """The ``count`` lowest natural modes of a single model with mass matrix ``M``.
 
-    Raises :class:`MechanismError` when the model is a mechanism (its reduced stiffness is
+    ``fac``: the model's assembled stiffness, when the caller has it already. Raises
+    :class:`MechanismError` when the model is a mechanism (its reduced stiffness is
     singular), as the static solve does.
     """
     if model.batch_shape:
         raise ModelError("natural_modes takes one model, not a batch")
-    fac = assemble_model(model)
+    fac = fac or assemble_model(model)
     fac.solve(np.zeros((fac.red.n_q, 1)))  # raises if the model is a mechanism
     Mr = fac.red.project(M)
     n_q = fac.red.n_q
@@ -295,10 +298,11 @@ def leg_mass(case: Case, built: Built) -> LegMass:
                    payload_t=payload)
 
 
-def foot_effective_mass(model: FrameModel, M: FloatArray, foot: int) -> tuple[float, float]:
+def foot_effective_mass(model: FrameModel, M: FloatArray, foot: int,
+                        fac: Assembled | None = None) -> tuple[float, float]:
     """(m_eff [t], k [N/mm]) at a node for vertical (y) motion: Rayleigh's method with the
     static deflection shape under a vertical load there (see the module docstring)."""
-    fac = assemble_model(model)
+    fac = fac or assemble_model(model)
     F = np.zeros((model.n_dofs, 1))
     dof = int(node_dofs(model, foot, "uy")[0])
     F[dof, 0] = 1.0
@@ -331,7 +335,8 @@ def leg_modes(case: Case, built: Built, count: int = 6) -> LegModes:
     model = built.model
     mass = leg_mass(case, built)
     M = mass_matrix(model, mass.mass_per_length_t_per_mm, mass.r2_mm2, mass.point_mass_t)
-    eig = natural_modes(model, M, count)
+    fac = assemble_model(model)
+    eig = natural_modes(model, M, count, fac)
     dof = int(node_dofs(model, built.foot, "uy")[0])
     modes = []
     for f, phi, frac in zip(eig.frequency_Hz, eig.shapes, eig.in_plane_fraction, strict=True):
@@ -342,7 +347,7 @@ def leg_modes(case: Case, built: Built, count: int = 6) -> LegModes:
             frequency_Hz=float(f), kind="in-plane" if frac >= 0.5 else "out-of-plane",
             in_plane_fraction=float(frac), shape=_scaled(shape),
             foot_modal_mass_t=None if still else 1.0 / foot_y**2))
-    m_eff, k = foot_effective_mass(model, M, built.foot)
+    m_eff, k = foot_effective_mass(model, M, built.foot, fac)
     return LegModes(modes=tuple(modes), mass=mass, foot_effective_mass_t=m_eff,
                     foot_stiffness_N_per_mm=k)
 
