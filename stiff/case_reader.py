@@ -41,6 +41,15 @@ class Field:
     help: str = ""
 
 
+#: The largest size of any number in a case. Far beyond any linkage (1e9 mm is 1000 km, 1e9 N·m
+#: no servo), it keeps the squares, cubes and fourth powers of the frame model finite; a larger
+#: number is a slip of the keyboard, not a design.
+MAX_MAGNITUDE = 1e9
+#: The smallest value of a key that must be positive: below it a size, rate or stiffness means
+#: nothing and would only be divided by.
+MIN_POSITIVE = 1e-9
+
+
 def positive(required: bool = False, help: str = "") -> Field:
     """A number > 0."""
     return Field("float", required=required, low=0.0, low_open=True, help=help)
@@ -145,6 +154,12 @@ class Reader:
             else:
                 why = f"not valid TOML: {msg}"
             raise CaseError(file, key or "(syntax)", why, line) from None
+        except ValueError:  # tomllib's int() refuses thousands of digits
+            long = re.search(r"\d[\d_]{999,}", text)
+            line = None if long is None else text.count("\n", 0, long.start()) + 1
+            key = reader.key_at(line) if line is not None else None
+            raise CaseError(file, key or "(syntax)", "a number with thousands of digits",
+                            line) from None
         return reader, data
 
     # --- locating keys ------------------------------------------------------------------
@@ -269,7 +284,7 @@ class Reader:
                 shape = "two numbers, like [10.0, -120.0]" if spec.kind == "point" else \
                     "a non-empty list of numbers"
                 raise self.error(where, f"must be {shape}")
-            nums = tuple(float(v) for v in items)  # type: ignore[arg-type]
+            nums = tuple(self._real(where, v) for v in items)  # type: ignore[arg-type]
             for v in nums:
                 self._check_range(where, v, spec)
             return nums
@@ -288,12 +303,28 @@ class Reader:
             raise self.error(where, f"must be a number, got {_type_name(value)}")
         if spec.kind == "int" and not isinstance(value, int):
             raise self.error(where, f"must be a whole number, got {value!r}")
-        if not math.isfinite(float(value)):
+        real = self._real(where, value)
+        self._check_range(where, real, spec)
+        return int(value) if spec.kind == "int" else real
+
+    def _real(self, where: str, value: float) -> float:
+        """A number as a float, once it is finite and no larger than MAX_MAGNITUDE."""
+        if isinstance(value, int) and abs(value) > MAX_MAGNITUDE:  # may not fit a float
+            raise self.error(where, f"is too large: numbers in a case stay within "
+                                    f"±{MAX_MAGNITUDE:g}, got a whole number of "
+                                    f"{value.bit_length()} bits")
+        real = float(value)
+        if not math.isfinite(real):
             raise self.error(where, f"must be a finite number, got {value!r}")
-        self._check_range(where, float(value), spec)
-        return int(value) if spec.kind == "int" else float(value)
+        if abs(real) > MAX_MAGNITUDE:
+            raise self.error(where, f"is too large: numbers in a case stay within "
+                                    f"±{MAX_MAGNITUDE:g}, got {real:g}")
+        return real
 
     def _check_range(self, where: str, v: float, spec: Field) -> None:
+        if spec.low == 0.0 and spec.low_open and 0.0 < v < MIN_POSITIVE:
+            raise self.error(where, f"is too small to mean anything: give at least "
+                                    f"{MIN_POSITIVE:g}, got {v:g}")
         if spec.low is not None:
             if spec.low_open and not v > spec.low:
                 raise self.error(where, f"must be greater than {spec.low:g}, got {v:g}")
