@@ -119,7 +119,7 @@ def parse_case(text: str, path: Path | None = None,
     actuators = read_actuators(reader, actuator_tables, joints)
     springs = read_springs(reader, top.get("springs", {}), parts, body_nodes)
     foot = reader.known("foot", top["foot"], nodes, "node")
-    _check_foot(reader, foot, parts)
+    _check_foot(reader, foot, parts, body_nodes)
     _check_connected(reader, parts, joints)
     angles, foot_target = _pose(reader, top.get("pose"), actuators)
     targets = Targets(**reader.table("targets", top.get("targets", {}), TARGETS))
@@ -137,23 +137,41 @@ def parse_case(text: str, path: Path | None = None,
 
 def _library(reader: Reader, top: Mapping[str, Any], lib: MaterialLibrary,
              path: Path | None) -> MaterialLibrary:
-    """The built-in materials plus the user's file and the case's own [materials]."""
-    try:
-        if "materials_file" in top:
-            extra = Path(top["materials_file"])
-            if not extra.is_absolute() and path is not None:
-                extra = path.parent / extra
-            if not extra.is_file():
-                raise reader.error("materials_file", f"no such file: {extra}")
+    """The built-in materials plus the user's file and the case's own [materials].
+
+    A mistake in the user's file names that file, row and column under ``materials_file``; one
+    in the case's own ``[materials.NAME]`` names its key there.
+    """
+    if "materials_file" in top:
+        extra = Path(top["materials_file"])
+        if not extra.is_absolute() and path is not None:
+            extra = path.parent / extra
+        try:
+            found = extra.is_file()
+        except (OSError, ValueError) as err:  # a name too long, a NUL in it
+            why = getattr(err, "strerror", None) or err
+            raise reader.error("materials_file", f"cannot read {extra}: {why}") from None
+        if not found:
+            raise reader.error("materials_file", f"no such file: {extra}")
+        try:
             lib = lib.with_file(extra)
-        for name, entry in reader.named_tables("materials", top.get("materials", {})).items():
-            kind = reader.table(f"materials.{name}", {"kind": entry.get("kind")}
-                                if "kind" in entry else {}, MATERIAL_ENTRY_KIND)["kind"]
-            columns = {k: v for k, v in entry.items() if k != "kind"}
-            origin = f"{path or '<case>'} [materials.{name}]"
+        except MaterialError as err:
+            raise reader.error("materials_file", str(err)) from None
+    for name, entry in reader.named_tables("materials", top.get("materials", {})).items():
+        where = f"materials.{name}"
+        kind = reader.table(where, {"kind": entry.get("kind")}
+                            if "kind" in entry else {}, MATERIAL_ENTRY_KIND)["kind"]
+        columns = {k: v for k, v in entry.items() if k != "kind"}
+        origin = f"{path or '<case>'} [{where}]"
+        try:
             lib = lib.with_records(kind, {name: columns}, origin)
-    except MaterialError as err:
-        raise CaseError(path, "materials", str(err), reader.line_of("materials")) from None
+        except MaterialError as err:
+            if err.column is None:
+                raise reader.error(where, err.why) from None
+            if err.why == "missing":  # the library's words for a record, said as for a key
+                raise reader.error(where, f"missing required key '{err.column}'") from None
+            why = f"unknown key '{err.column}'" if err.why == "unknown key" else err.why
+            raise reader.error(f"{where}.{err.column}", why) from None
     return lib
 
 
@@ -208,7 +226,7 @@ def _segments(reader: Reader, where: str, nodes: tuple[str, ...],
     if not data:
         return tuple(itertools.pairwise(nodes)), {}
     pairs = []
-    for key in data:
+    for key in reader.named_tables(f"{where}.segments", data):
         ends = key.split("-")
         if len(ends) != 2 or not all(e in nodes for e in ends):
             raise reader.error(f"{where}.segments.{key}",
@@ -277,9 +295,13 @@ def _tube_part(reader: Reader, where: str, name: str, v: Mapping[str, Any],
                 tube_material=material, od_mm=od, id_mm=inner)
 
 
-def _check_foot(reader: Reader, foot: str, parts: tuple[Part, ...]) -> None:
+def _check_foot(reader: Reader, foot: str, parts: tuple[Part, ...],
+                body_nodes: tuple[str, ...]) -> None:
     if not any(foot in p.nodes for p in parts):
         raise reader.error("foot", f"no part carries the foot node '{foot}'")
+    if foot in body_nodes:
+        raise reader.error("foot", f"the foot node '{foot}' is a body node: the chassis holds "
+                                   "it, so it cannot give under a load")
 
 
 def _check_connected(reader: Reader, parts: tuple[Part, ...], joints: tuple[Joint, ...]) -> None:

@@ -123,6 +123,7 @@ def read_joints(reader: Reader, data: object, nodes: Mapping[str, tuple[float, f
     by_name = {p.name: p for p in parts}
     printed = {p.name for p in parts if p.kind == "printed"}
     out = []
+    at_node: dict[str, list[tuple[set[str], str]]] = {}  # parts joined there, by which joint
     for name, entry in reader.named_tables("joints", data).items():
         where = f"joints.{name}"
         v = reader.table(where, entry, JOINT)
@@ -141,6 +142,7 @@ def read_joints(reader: Reader, data: object, nodes: Mapping[str, tuple[float, f
                 raise reader.error(f"{where}.parts[{i}]", f"part '{p}' does not meet node "
                                                           f"'{node}' (its nodes: "
                                                           f"{', '.join(by_name[p].nodes)})")
+        _check_not_joined_twice(reader, where, name, node, joined, at_node.setdefault(node, []))
         kind = v["kind"]
         pin = v.get("pin_diameter_mm")
         if kind in ("pin", "driven") and pin is None:
@@ -243,6 +245,26 @@ def read_actuators(reader: Reader, data: Mapping[str, Any], joints: tuple[Joint,
     return tuple(out)
 
 
+def _check_not_joined_twice(reader: Reader, where: str, name: str, node: str,
+                           joined: tuple[str, ...], groups: list[tuple[set[str], str]]) -> None:
+    """Refuse a joint that closes a loop among parts already joined at the same node.
+
+    ``groups`` holds the sets of parts the earlier joints at ``node`` hold together (and the
+    first of those joints); this joint's parts are merged in.
+    """
+    mine = set(joined)
+    touching = [g for g in groups if g[0] & mine]
+    for parts, first in touching:
+        common = [p for p in joined if p in parts]
+        if len(common) >= 2:
+            raise reader.error(f"{where}.parts", f"{common[0]} and {common[1]} are already "
+                                                 f"joined at node '{node}' (joints.{first})")
+    merged = mine.union(*(g[0] for g in touching))
+    for g in touching:
+        groups.remove(g)
+    groups.append((merged, touching[0][1] if touching else name))
+
+
 def read_springs(reader: Reader, data: object, parts: tuple[Part, ...],
              body_nodes: tuple[str, ...]) -> tuple[Spring, ...]:
     by_name = {p.name: p for p in parts}
@@ -267,6 +289,9 @@ def read_springs(reader: Reader, data: object, parts: tuple[Part, ...],
                 if node not in by_name[part].nodes:
                     raise reader.error(spot, f"part '{part}' has no node '{node}'")
             ends.append((part, node))
+        if ends[0][1] == ends[1][1]:
+            raise reader.error(f"{where}.ends", f"both ends are at node '{ends[0][1]}': a spring "
+                                                "needs two different places")
         rates, lengths = v["rate_N_per_mm"], v["free_length_mm"]
         if len(rates) != len(lengths):
             raise reader.error(f"{where}.free_length_mm", "give one free length per spring rate "
