@@ -250,6 +250,19 @@ def section(
 # Check
 
 
+def _check_case_path(path: Path) -> None:
+    """A CaseError unless ``path`` is a file (a folder, a missing file, a name the system
+    refuses)."""
+    try:
+        if path.is_dir():
+            raise CaseError(path, "(file)", "is a folder, not a case file")
+        if not path.is_file():
+            raise CaseError(path, "(file)", "no such case file")
+    except (OSError, ValueError) as err:
+        raise CaseError(path, "(file)", f"cannot read: {getattr(err, 'strerror', None) or err}"
+                        ) from None
+
+
 @cli.command()
 @click.argument("case_file", required=False, type=click.Path(path_type=Path))
 @click.option("--out", "out_dir", type=click.Path(path_type=Path),
@@ -267,10 +280,7 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
     """
     path = case_file or CASES_DIR / "five_bar_leg.toml"
     try:
-        if path.is_dir():
-            raise CaseError(path, "(file)", "is a folder, not a case file")
-        if not path.is_file():
-            raise CaseError(path, "(file)", "no such case file")
+        _check_case_path(path)
         with click.progressbar(length=3 if out_dir is not None else 1, label="checking",
                                file=sys.stderr,
                                hidden=quiet or as_json or not sys.stderr.isatty()) as bar:
