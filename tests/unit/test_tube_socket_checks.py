@@ -81,16 +81,16 @@ def test_hopping_pins_through_the_pultruded_push_rod_are_warned(hopping: CheckCo
     assert not any("thigh" in w for w in found)  # roll-wrapped, bonded: no warning
 
 
-def test_demo_sockets_deeper_than_their_caps_are_warned(five_bar: CheckContext) -> None:
-    """The five-bar's caps reach 12.5 mm from the socket's node to the next pin; its sockets
-    are 15 mm deep."""
-    found = sockets.warnings(five_bar)
-    assert len([w for w in found if "the bore runs into the next joint" in w]) == 4
+def test_demo_sockets_deeper_than_their_blocks_are_warned(hopping: CheckContext) -> None:
+    """The hopping leg's hip and knee blocks reach 15 mm from the socket's node to the next
+    pin; its thigh sockets are 20 mm deep."""
+    found = sockets.warnings(hopping)
+    assert len([w for w in found if "the bore runs into the next joint" in w]) == 2
 
 
 def test_a_socket_shorter_than_the_tube_is_warned_and_still_checked() -> None:
     text = FIVE_BAR.replace(
-        'socket = { tube = "link_a", engagement_mm = 15.0, fixing = "bonded", '
+        'socket = { tube = "link_a", engagement_mm = 12.0, fixing = "bonded", '
         'adhesive = "epoxy" }\n\n[joints.socket_a_bottom]',
         'socket = { tube = "link_a", engagement_mm = 4.0, fixing = "bonded", '
         'adhesive = "epoxy" }\n\n[joints.socket_a_bottom]', 1)
@@ -104,9 +104,9 @@ def test_a_socket_shorter_than_the_tube_is_warned_and_still_checked() -> None:
 
 def test_a_section_with_no_wall_round_the_tube_is_refused() -> None:
     text = FIVE_BAR.replace(
-        '[parts.cap_a_top]\nkind = "printed"\nnodes = ["elbow_a", "socket_a_top"]\nz_mm = 13.0\n'
-        'section = { material = "PETG", width_mm = 8.0,',
-        '[parts.cap_a_top]\nkind = "printed"\nnodes = ["elbow_a", "socket_a_top"]\nz_mm = 13.0\n'
+        '[parts.cap_a_top]\nkind = "printed"\nnodes = ["elbow_a", "socket_a_top"]\nz_mm = 15.0\n'
+        'section = { material = "PETG", width_mm = 10.0,',
+        '[parts.cap_a_top]\nkind = "printed"\nnodes = ["elbow_a", "socket_a_top"]\nz_mm = 15.0\n'
         'section = { material = "PETG", width_mm = 5.0,')
     assert text != FIVE_BAR
     ctx = _context(text)
