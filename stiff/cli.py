@@ -10,6 +10,7 @@ from dataclasses import replace
 from pathlib import Path
 
 import click
+import matplotlib.pyplot as plt
 
 from stiff import CASES_DIR, __version__
 from stiff.case import load_case
@@ -28,7 +29,12 @@ from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS, check_build_direct
 from stiff.report.document import write_report
 from stiff.report.results_json import results_dict, write_results
 from stiff.report.summary import summary_lines
+from stiff.report.sweep_plots import MAP_LABELS, map_plot, pareto_plot
+from stiff.report.sweep_text import map_lines, sweep_lines
 from stiff.report_text import material_detail, materials_list, section_comparison
+from stiff.sweep import Prefer, recommend, run_sweep, sensitivity, write_csv
+from stiff.sweep_spec import apply_values, parse_specs, variant_count
+from stiff.workspace import grid_angles, workspace_map, write_map_csv
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -307,3 +313,96 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
         click.echo(f"report: {report}")
     ctx.exit(EXIT_OK if result.all_met else EXIT_CHECK_FAILED)
 
+
+
+# ---------------------------------------------------------------------------------------------
+# Sweep and map
+
+
+def _save(ax: typing.Any, path: Path) -> Path:
+    """Save the figure of ``ax`` to ``path`` and close it."""
+    fig = ax.figure
+    fig.tight_layout()
+    fig.savefig(path, dpi=120)
+    plt.close(fig)
+    return path
+
+
+@cli.command()
+@click.argument("case_file", type=click.Path(path_type=Path))
+@click.option("--vary", "specs", multiple=True, required=True, metavar="SPEC",
+              help="PART.SETTING=VALUES, e.g. crank_a.walls=2,3,4, link_a.size=6x4,8x6, "
+              "'*.infill=20:60:20'; settings: walls, infill [%], pattern, build, width_mm, "
+              "depth_mm, size. Repeatable: the sweep is every combination.")
+@click.option("--out", "out_dir", type=click.Path(path_type=Path), required=True,
+              help="Folder to write sweep.csv and sweep.png into (made if missing).")
+@click.option("--prefer", type=click.Choice(["mass", "time"]), default="mass",
+              show_default=True, help="Recommend the lightest or the fastest-to-print variant "
+              "meeting every check and target.")
+@click.option("--rate-mm3-per-s", "rate", type=click.FloatRange(min=0.0, min_open=True),
+              default=8.0, show_default=True,
+              help="Volumetric print rate for the print-time estimate [mm³/s] (8: common "
+              "practice for a 0.4 mm nozzle).")
+@click.pass_context
+def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: Path,
+          prefer: str, rate: float) -> None:
+    """Check every combination of print settings and tube sizes of CASE_FILE.
+
+    Writes sweep.csv (one line per variant) and sweep.png (mass against compliance, Pareto
+    front), and prints the recommended variant with its governing checks and the
+    sensitivities. Exit code 1 when no variant meets every check and target.
+    """
+    chosen: Prefer = "time" if prefer == "time" else "mass"
+    try:
+        _check_case_path(case_file)
+        case = load_case(case_file)
+        variables = parse_specs(case, specs)
+        with click.progressbar(length=variant_count(variables), label="variants",
+                               file=sys.stderr, hidden=not sys.stderr.isatty()) as bar:
+            rows = run_sweep(case, variables, rate, progress=bar.update)
+        best, meets = recommend(rows, chosen)
+        result = None if best is None else run_check(apply_values(case, variables, best.values))
+        csv_path = write_csv(out_dir / "sweep.csv", variables, rows)
+        png = _save(pareto_plot(rows, recommended=None if best is None else best.index),
+                    out_dir / "sweep.png")
+    except StiffError as err:
+        raise _command_error(err) from err
+    except OSError as err:
+        raise click.ClickException(f"cannot write into {out_dir}: {err.strerror}") from None
+    click.echo("\n".join(sweep_lines(case, variables, rows, best, meets, chosen, result,
+                                     sensitivity(variables, rows))))
+    click.echo(f"variants: {csv_path}")
+    click.echo(f"plot: {png}")
+    ctx.exit(EXIT_OK if meets else EXIT_CHECK_FAILED)
+
+
+@cli.command(name="map")
+@click.argument("case_file", type=click.Path(path_type=Path))
+@click.option("--out", "out_dir", type=click.Path(path_type=Path), required=True,
+              help="Folder to write map.csv and the map pictures into (made if missing).")
+@click.option("--steps", type=click.IntRange(min=2, max=101), default=7, show_default=True,
+              help="Angles per actuator over its range (±30° about the pose without one).")
+def map_command(case_file: Path, out_dir: Path, steps: int) -> None:
+    """Map CASE_FILE over a grid of actuator angles: compliance, strength, singularity.
+
+    One actuator gives a line of poses, two a grid; further actuators stay at their pose.
+    Writes map.csv and map_<quantity>.png; unreachable and jammed poses are recorded in the
+    CSV, never an error.
+    """
+    try:
+        _check_case_path(case_file)
+        case = load_case(case_file)
+        count = len(grid_angles(case, steps)[2])
+        with click.progressbar(length=count, label="poses", file=sys.stderr,
+                               hidden=not sys.stderr.isatty()) as bar:
+            result = workspace_map(case, steps, progress=bar.update)
+        out_dir.mkdir(parents=True, exist_ok=True)
+        written = [write_map_csv(out_dir / "map.csv", case, result)]
+        written += [_save(map_plot(result, metric), out_dir / f"map_{metric}.png")
+                    for metric in MAP_LABELS]
+    except StiffError as err:
+        raise _command_error(err) from err
+    except OSError as err:
+        raise click.ClickException(f"cannot write into {out_dir}: {err.strerror}") from None
+    click.echo("\n".join(map_lines(case, result)))
+    click.echo(f"written: {', '.join(str(p) for p in written)}")

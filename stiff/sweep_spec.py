@@ -220,3 +220,8 @@ def apply_values(case: Case, variables: tuple[Variable, ...], values: tuple[Valu
             else:
                 parts[name] = _set_printed(parts[name], var.setting, value)
     return replace(case, parts=tuple(parts[p.name] for p in case.parts))
+
+
+def variant_count(variables: tuple[Variable, ...]) -> int:
+    """How many variants the full factorial of ``variables`` has."""
+    return math.prod(len(v.values) for v in variables)
