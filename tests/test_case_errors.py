@@ -630,13 +630,15 @@ _scalars = st.one_of(
     st.floats(allow_nan=True, allow_infinity=True), st.booleans(),
     st.sampled_from([0, 0.0, -1.0, 1e-9, 1e9, 100.0, 3.1, 2, 1e-300, 1e300]),
 )
-_values = st.recursive(
-    _scalars,
-    lambda inner: st.lists(inner, max_size=4)
-    | st.dictionaries(st.sampled_from(("x_mm", "y_mm", "hole_mm", *KEYS, *NAMES))
-                      | st.text(min_size=1, max_size=6), inner, max_size=3),
-    max_leaves=6,
-)
+
+
+def _nested(inner: st.SearchStrategy[object]) -> st.SearchStrategy[object]:
+    keys = st.sampled_from(("x_mm", "y_mm", "hole_mm", *KEYS, *NAMES)) | st.text(min_size=1,
+                                                                                 max_size=6)
+    return st.lists(inner, max_size=4) | st.dictionaries(keys, inner, max_size=3)
+
+
+_values = st.recursive(_scalars, _nested, max_leaves=6)
 #: STIFF_GARBAGE_EXAMPLES=N runs N fresh random examples a test (a hunt for new failures); by
 #: default each test runs a fixed draw of a few dozen, so that CI is repeatable and quick.
 _HUNT = int(os.environ.get("STIFF_GARBAGE_EXAMPLES", "0"))
