@@ -29,7 +29,7 @@ from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS, check_build_direct
 from stiff.report.document import write_report
 from stiff.report.results_json import results_dict, write_results
 from stiff.report.summary import summary_lines
-from stiff.report.sweep_plots import MAP_LABELS, map_plot, pareto_plot
+from stiff.report.sweep_plots import MAP_LABELS, angle_plot, map_plot, pareto_plot
 from stiff.report.sweep_text import map_lines, sweep_lines
 from stiff.report_text import material_detail, materials_list, section_comparison
 from stiff.sweep import Prefer, recommend, run_sweep, sensitivity, write_csv
@@ -386,8 +386,9 @@ def map_command(case_file: Path, out_dir: Path, steps: int) -> None:
     """Map CASE_FILE over a grid of actuator angles: compliance, strength, singularity.
 
     One actuator gives a line of poses, two a grid; further actuators stay at their pose.
-    Writes map.csv and map_<quantity>.png; unreachable and jammed poses are recorded in the
-    CSV, never an error.
+    Writes map.csv, map_<quantity>.png (foot positions coloured by vertical, lateral,
+    min_factor, singularity) and map_angles.png (minimum factor over the angles); unreachable
+    and jammed poses are recorded in the CSV and marked, never an error.
     """
     try:
         _check_case_path(case_file)
@@ -400,6 +401,8 @@ def map_command(case_file: Path, out_dir: Path, steps: int) -> None:
         written = [write_map_csv(out_dir / "map.csv", case, result)]
         written += [_save(map_plot(result, metric), out_dir / f"map_{metric}.png")
                     for metric in MAP_LABELS]
+        written.append(_save(angle_plot(result, [a.name for a in case.actuators]),
+                             out_dir / "map_angles.png"))
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:

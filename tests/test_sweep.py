@@ -20,7 +20,7 @@ from stiff import CASES_DIR
 from stiff.case import load_case
 from stiff.check import run_check
 from stiff.cli import cli
-from stiff.report.sweep_plots import map_plot, pareto_plot
+from stiff.report.sweep_plots import angle_plot, map_plot, pareto_plot
 from stiff.sweep import amounts, pareto_front, recommend, run_sweep, sensitivity
 from stiff.sweep_spec import MAX_VARIANTS, SweepSpecError, apply_values, parse_specs
 from stiff.workspace import evaluate_pose, workspace_map
@@ -160,6 +160,7 @@ def test_a_map_records_unreachable_poses_without_crashing() -> None:
     lost = result.unreachable
     assert lost and all(r.why and math.isnan(r.vertical_mm_per_N) for r in lost)
     assert map_plot(result, "min_factor") is not None
+    assert angle_plot(result, [a.name for a in case.actuators]) is not None
     plt.close("all")
 
 
@@ -176,5 +177,5 @@ def test_map_command_on_the_camera_arm(tmp_path: Path) -> None:
     assert "3 poses over lift; 3 reachable" in result.output
     lines = (tmp_path / "map.csv").read_text(encoding="utf-8").splitlines()
     assert len(lines) == 4 and lines[0].startswith("pose,lift_deg,reachable,foot_x_mm")
-    for metric in ("vertical", "lateral", "min_factor", "singularity"):
+    for metric in ("vertical", "lateral", "min_factor", "singularity", "angles"):
         assert (tmp_path / f"map_{metric}.png").stat().st_size > 0

@@ -98,3 +98,48 @@ def map_plot(result: WorkspaceMap, metric: MapMetric, ax: Axes | None = None) ->
                  fontsize=9)
     ax.grid(True, color=SOFT, lw=0.3)
     return ax
+
+
+def angle_plot(result: WorkspaceMap, actuators: Sequence[str], metric: MapMetric = "min_factor",
+               ax: Axes | None = None) -> Axes:
+    """The map over the actuator angles [°]: for two mapped actuators the angle grid coloured
+    by ``metric``, for one the metric against the angle; unreachable or jammed poses marked
+    with a red cross, near-singular poses ringed. ``actuators`` names every actuator of the
+    case, in the order of the rows' angles."""
+    ax = _axes(ax)
+    cols = [list(actuators).index(n) for n in result.mapped]
+    reach = [r for r in result.rows if r.reachable]
+    lost = [r for r in result.rows if not r.reachable]
+    near = [r for r in reach if r.near_singular]
+
+    def deg(rows: Sequence[PoseRow], k: int) -> list[float]:
+        return [math.degrees(r.angles_rad[cols[k]]) for r in rows]
+
+    values = [_metric(r, metric) for r in reach]
+    if len(cols) == 2:
+        if reach:
+            points = ax.scatter(deg(reach, 0), deg(reach, 1), c=values, cmap="viridis", s=60,
+                                marker="s", zorder=2)
+            ax.figure.colorbar(points, ax=ax, label=MAP_LABELS[metric])
+        if near:
+            ax.scatter(deg(near, 0), deg(near, 1), s=130, facecolors="none", edgecolors=BAD,
+                       zorder=3, label="near singular")
+        if lost:
+            ax.scatter(deg(lost, 0), deg(lost, 1), marker="x", color=BAD, s=50, zorder=4,
+                       label="unreachable or jams")
+        ax.set_ylabel(f"{result.mapped[1]} angle [°]")
+    else:
+        ax.plot(deg(reach, 0), values, "o-", color=INK, zorder=2)
+        if near:
+            ax.scatter(deg(near, 0), [_metric(r, metric) for r in near], s=130,
+                       facecolors="none", edgecolors=BAD, zorder=3, label="near singular")
+        for i, r in enumerate(lost):
+            ax.axvline(math.degrees(r.angles_rad[cols[0]]), color=BAD, lw=0.8, ls="--",
+                       label="unreachable or jams" if i == 0 else None)
+        ax.set_ylabel(MAP_LABELS[metric])
+    ax.set_xlabel(f"{result.mapped[0]} angle [°]")
+    ax.set_title(f"Actuator angles: {MAP_LABELS[metric].split(' [')[0]}", fontsize=9)
+    if near or lost:
+        ax.legend(loc="best", fontsize=8)
+    ax.grid(True, color=SOFT, lw=0.3)
+    return ax
