@@ -27,13 +27,12 @@ variable, the variants where every other variable is at its first (base) value, 
 
 from __future__ import annotations
 
-import concurrent.futures as cf
 import csv
 import itertools
 import math
-import multiprocessing as mp
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass
+from functools import partial
 from pathlib import Path
 from typing import Literal
 
@@ -43,15 +42,13 @@ from stiff.build import Built
 from stiff.case_model import Case
 from stiff.check import CheckResult, run_check
 from stiff.errors import StiffError
+from stiff.pool import WORKERS, map_items
 from stiff.sweep_spec import Value, Variable, apply_values
 
 G_PER_T = 1.0e6
 CM3_PER_MM3 = 1.0e-3
 #: Volumetric print rate [mm³/s]: common practice for a 0.4 mm nozzle at ordinary speeds.
 DEFAULT_RATE_MM3_PER_S = 8.0
-#: Above this many variants a sweep runs on a process pool.
-POOL_ABOVE = 4
-WORKERS = 2
 Prefer = Literal["mass", "time"]
 
 
@@ -148,21 +145,6 @@ def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tu
     return row_from_result(index, values, result, rate_mm3_per_s)
 
 
-#: The base case and variables of the sweep a pool worker process serves, set once by
-#: :func:`_start_worker` in that process (the case holds mapping proxies, which do not pickle,
-#: so workers are forked with it rather than sent it).
-_WORKER_JOB: dict[str, tuple[Case, tuple[Variable, ...], float]] = {}
-
-
-def _start_worker(case: Case, variables: tuple[Variable, ...], rate_mm3_per_s: float) -> None:
-    _WORKER_JOB["job"] = (case, variables, rate_mm3_per_s)
-
-
-def _evaluate_chunk(chunk: list[tuple[int, tuple[Value, ...]]]) -> list[VariantRow]:
-    case, variables, rate = _WORKER_JOB["job"]
-    return [evaluate(case, variables, i, v, rate) for i, v in chunk]
-
-
 def variant_values(variables: tuple[Variable, ...]) -> list[tuple[Value, ...]]:
     """Every combination of the variables' values, the last variable fastest."""
     return list(itertools.product(*(v.values for v in variables)))
@@ -180,29 +162,16 @@ def run_sweep(case: Case, variables: tuple[Variable, ...],
     variables : from :func:`stiff.sweep_spec.parse_specs`
     rate_mm3_per_s : volumetric print rate for the print-time estimate [mm³/s]
     progress : called with the number of variants just finished (for a progress bar)
-    workers : processes when there are more than :data:`POOL_ABOVE` variants
+    workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` variants
     """
     combos = list(enumerate(variant_values(variables)))
-    forking = "fork" in mp.get_all_start_methods()
-    if len(combos) <= POOL_ABOVE or workers <= 1 or not forking:
-        rows = []
-        for i, values in combos:
-            rows.append(evaluate(case, variables, i, values, rate_mm3_per_s))
-            if progress is not None:
-                progress(1)
-        return tuple(rows)
-    size = max(1, min(8, len(combos) // (4 * workers)))
-    chunks = [combos[i:i + size] for i in range(0, len(combos), size)]
-    out: list[VariantRow] = []
-    with cf.ProcessPoolExecutor(max_workers=workers, mp_context=mp.get_context("fork"),
-                                initializer=_start_worker,
-                                initargs=(case, variables, rate_mm3_per_s)) as pool:
-        for fut in cf.as_completed([pool.submit(_evaluate_chunk, c) for c in chunks]):
-            got = fut.result()
-            out.extend(got)
-            if progress is not None:
-                progress(len(got))
-    return tuple(sorted(out, key=lambda r: r.index))
+    job = partial(_evaluate_item, case, variables, rate_mm3_per_s)
+    return tuple(map_items(job, combos, workers, progress))
+
+
+def _evaluate_item(case: Case, variables: tuple[Variable, ...], rate_mm3_per_s: float,
+                   item: tuple[int, tuple[Value, ...]]) -> VariantRow:
+    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s)
 
 
 def pareto_front(rows: Sequence[VariantRow]) -> tuple[int, ...]:

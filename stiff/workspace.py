@@ -19,13 +19,12 @@ whose measure is below :data:`NEAR_SINGULAR` is flagged: there the forces in the
 
 from __future__ import annotations
 
-import concurrent.futures as cf
 import csv
 import itertools
 import math
-import multiprocessing as mp
 from collections.abc import Callable
 from dataclasses import dataclass, replace
+from functools import partial
 from pathlib import Path
 
 import numpy as np
@@ -34,6 +33,7 @@ from stiff.case_model import Case
 from stiff.check import run_check
 from stiff.errors import StiffError
 from stiff.kinematics import SINGULAR_WARNING
+from stiff.pool import WORKERS, map_items
 
 #: Half the span mapped about the pose for an actuator without a range [°].
 HALF_SPAN_DEG = 30.0
@@ -43,8 +43,6 @@ DEFAULT_STEPS = 7
 NEAR_SINGULAR = SINGULAR_WARNING
 #: Load cases whose checks give a pose's minimum factor (the first static case is added).
 MAP_LOAD_CASES = ("stance", "payload", "landing")
-POOL_ABOVE = 4
-WORKERS = 2
 
 
 class MapError(StiffError):
@@ -145,17 +143,6 @@ def evaluate_pose(case: Case, index: int, angles_rad: tuple[float, ...]) -> Pose
         result.pose.singularity)
 
 
-_WORKER_CASE: dict[str, Case] = {}  # the case a forked pool worker maps, set by _start_worker
-
-
-def _start_worker(case: Case) -> None:
-    _WORKER_CASE["case"] = case
-
-
-def _evaluate_chunk(chunk: list[tuple[int, tuple[float, ...]]]) -> list[PoseRow]:
-    return [evaluate_pose(_WORKER_CASE["case"], i, a) for i, a in chunk]
-
-
 def workspace_map(case: Case, steps: int = DEFAULT_STEPS,
                   progress: Callable[[int], None] | None = None,
                   workers: int = WORKERS) -> WorkspaceMap:
@@ -166,28 +153,15 @@ def workspace_map(case: Case, steps: int = DEFAULT_STEPS,
     case : the case
     steps : angles per mapped actuator [-]
     progress : called with the number of poses just finished
-    workers : processes when there are more than :data:`POOL_ABOVE` poses
+    workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` poses
     """
     mapped, held, grid = grid_angles(case, steps)
-    jobs = list(enumerate(grid))
-    rows: list[PoseRow] = []
-    if len(jobs) <= POOL_ABOVE or workers <= 1 or "fork" not in mp.get_all_start_methods():
-        for i, angles in jobs:
-            rows.append(evaluate_pose(case, i, angles))
-            if progress is not None:
-                progress(1)
-    else:
-        size = max(1, min(8, len(jobs) // (4 * workers)))
-        chunks = [jobs[i:i + size] for i in range(0, len(jobs), size)]
-        with cf.ProcessPoolExecutor(max_workers=workers, mp_context=mp.get_context("fork"),
-                                    initializer=_start_worker, initargs=(case,)) as pool:
-            for fut in cf.as_completed([pool.submit(_evaluate_chunk, c) for c in chunks]):
-                got = fut.result()
-                rows.extend(got)
-                if progress is not None:
-                    progress(len(got))
-    return WorkspaceMap(mapped, held, (steps,) * len(mapped),
-                        tuple(sorted(rows, key=lambda r: r.index)))
+    rows = map_items(partial(_evaluate_item, case), list(enumerate(grid)), workers, progress)
+    return WorkspaceMap(mapped, held, (steps,) * len(mapped), tuple(rows))
+
+
+def _evaluate_item(case: Case, item: tuple[int, tuple[float, ...]]) -> PoseRow:
+    return evaluate_pose(case, item[0], item[1])
 
 
 def write_map_csv(path: Path, case: Case, result: WorkspaceMap) -> Path:

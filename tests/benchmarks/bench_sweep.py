@@ -16,10 +16,10 @@ It prints, for the case:
 * where one check spends its time (cProfile, cumulative seconds of each stage);
 * the batched engine's compliance alone: 50 poses of one variant stacked into one call.
 
-BLAS threads: the script runs numpy's BLAS on one thread per process unless the environment
-already says otherwise (``OPENBLAS_NUM_THREADS`` ...): the models are small, and a threaded BLAS
-on them costs more than it gains (measured: one check 0.87 s with the default threads against
-0.26 s with one, on 2 cores). Run with ``OPENBLAS_NUM_THREADS=2`` to see the default.
+BLAS threads: sweeps and maps limit numpy's BLAS to one thread themselves (``stiff.pool``);
+the script also starts numpy on one thread unless the environment says otherwise, so that the
+single check it times is measured the same way. Run with ``OPENBLAS_NUM_THREADS=2`` to see
+one check with the default threads (0.87 s against 0.26 s with one, measured on 2 cores).
 
 Not a test: pytest collects ``test_*.py`` only.
 """
