@@ -368,7 +368,7 @@ def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: 
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:
-        raise click.ClickException(f"cannot write into {out_dir}: {err.strerror}") from None
+        raise _InputError(StiffError(f"cannot write into {out_dir}: {err.strerror}")) from None
     click.echo("\n".join(sweep_lines(case, variables, rows, best, meets, chosen, result,
                                      sensitivity(variables, rows))))
     click.echo(f"variants: {csv_path}")
@@ -406,6 +406,6 @@ def map_command(case_file: Path, out_dir: Path, steps: int) -> None:
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:
-        raise click.ClickException(f"cannot write into {out_dir}: {err.strerror}") from None
+        raise _InputError(StiffError(f"cannot write into {out_dir}: {err.strerror}")) from None
     click.echo("\n".join(map_lines(case, result)))
     click.echo(f"written: {', '.join(str(p) for p in written)}")

@@ -189,3 +189,12 @@ def test_map_command_on_the_camera_arm(tmp_path: Path) -> None:
     assert len(lines) == 4 and lines[0].startswith("pose,lift_deg,reachable,foot_x_mm")
     for metric in ("vertical", "lateral", "min_factor", "singularity", "angles"):
         assert (tmp_path / f"map_{metric}.png").stat().st_size > 0
+
+
+def test_an_out_folder_that_is_a_file_is_exit_2_in_one_line(tmp_path: Path) -> None:
+    taken = tmp_path / "taken"
+    taken.write_text("", encoding="utf-8")
+    result = CliRunner().invoke(cli, ["map", str(ARM), "--out", str(taken), "--steps", "2"])
+    assert result.exit_code == 2, result.output
+    assert "cannot write into" in result.output
+    assert len(result.output.strip().splitlines()) == 1
