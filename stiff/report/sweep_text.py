@@ -11,6 +11,9 @@ from stiff.sweep import Prefer, Sensitivity, VariantRow, pareto_front
 from stiff.sweep_spec import Variable
 from stiff.workspace import NEAR_SINGULAR, PoseRow, WorkspaceMap
 
+#: Checks the closest variant misses that the summary lists; the CSV has all of them.
+SHOW_MISSES = 8
+
 
 def _settings(variables: tuple[Variable, ...], row: VariantRow) -> str:
     return ", ".join(f"{v.name}={x:g}" if isinstance(x, float) else f"{v.name}={x}"
@@ -48,7 +51,10 @@ def sweep_lines(case: Case, variables: tuple[Variable, ...], rows: Sequence[Vari
         out.append("NO variant meets every check and target; the closest (lowest worst "
                    f"utilisation {recommended.worst_utilisation:.3g}) is variant "
                    f"{recommended.index}: {_settings(variables, recommended)}")
-        out.extend(f"  misses {m}" for m in recommended.not_met)
+        out.extend(f"  misses {m}" for m in recommended.not_met[:SHOW_MISSES])
+        if len(recommended.not_met) > SHOW_MISSES:
+            out.append(f"  ... and {len(recommended.not_met) - SHOW_MISSES} more (the "
+                       "not_met column of sweep.csv)")
     out.append("  " + _row_line(recommended))
     if check is not None:
         out.append("  governing check of every item (factor / required):")
