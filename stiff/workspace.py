@@ -2,7 +2,8 @@
 a singular pose, and which poses it cannot reach.
 
 The grid: for each actuator, ``steps`` angles evenly over its range (``angle_min``..``angle_max``
-in the case), or ±:data:`HALF_SPAN_DEG` about its pose angle when it has no range. One actuator
+in the case), or ±:data:`HALF_SPAN_DEG` about its angle in the case's pose (the asked angles, or
+those of its foot target) when it has no range. One actuator
 gives a line, two a grid; with more, the first two are mapped and the others held at their
 pose angles (said in :attr:`WorkspaceMap.held`).
 
@@ -31,8 +32,9 @@ import numpy as np
 
 from stiff.case_model import Case
 from stiff.check import run_check
-from stiff.errors import StiffError
+from stiff.errors import PoseError, StiffError
 from stiff.kinematics import SINGULAR_WARNING
+from stiff.linkage import case_pose
 from stiff.pool import WORKERS, map_items
 
 #: Half the span mapped about the pose for an actuator without a range [°].
@@ -99,8 +101,12 @@ def grid_angles(case: Case, steps: int = DEFAULT_STEPS
         raise MapError("the case has no actuators to map")
     if steps < 2:
         raise MapError(f"--steps must be at least 2, got {steps}")
-    pose = {a.name: (case.pose_angles_rad or {}).get(a.name, a.angle_rad)
-            for a in case.actuators}
+    try:  # the case's pose, also when it is given as a foot target
+        at = case_pose(case).angles_rad
+    except PoseError:
+        at = np.array([(case.pose_angles_rad or {}).get(a.name, a.angle_rad)
+                       for a in case.actuators])
+    pose = {a.name: float(x) for a, x in zip(case.actuators, at, strict=True)}
     mapped = case.actuators[:2]
     axes = []
     for a in mapped:
