@@ -34,6 +34,8 @@ MetalStrength = Literal["ultimate", "yield", "proof"]
 
 #: Temperature at which the tables' values hold [°C].
 ROOM_TEMPERATURE_C = 23.0
+#: The 90 % quantile of the standard normal distribution, k_B for a known population.
+Z90 = float(stats.norm.ppf(0.90))
 
 
 @dataclass(frozen=True)
@@ -183,9 +185,9 @@ def k_b(samples: int | None) -> float:
     MaterialError
         Fewer than two samples.
     """
-    z90 = float(stats.norm.ppf(0.90))
     if samples is None:
-        return z90
+        return Z90
+    z90 = Z90
     if samples < 2:
         raise MaterialError(
             None, None, "samples", f"a B-basis needs at least 2 samples, got {samples}"
