@@ -56,15 +56,21 @@ class Solution:
         return self.beam_forces[..., 6]
 
 
-def _gather(u: FloatArray, dofs: np.ndarray) -> FloatArray:
-    """(..., c, n_el, k) element DOF values from (..., c, n_dofs) vectors."""
-    return u[..., dofs]
-
-
 def _apply(matrix: FloatArray, vectors: FloatArray) -> FloatArray:
     """(..., n, a, b) @ (..., c, n, b) -> (..., c, n, a), with the case axis inserted."""
     out: FloatArray = (matrix[..., None, :, :, :] @ vectors[..., None])[..., 0]
     return out
+
+
+def _to_local(R: FloatArray, u: FloatArray) -> FloatArray:
+    """T u for member rotations R (..., n, 3, 3) and global end vectors u (..., c, n, 12):
+    each of the four 3-vectors (u1, θ1, u2, θ2) turned into local axes."""
+    blocks = u.reshape(*u.shape[:-1], 4, 3) @ np.swapaxes(R, -1, -2)[..., None, :, :, :]
+    return blocks.reshape(u.shape)
+
+
+def _no_elements(batch_c: tuple[int, ...], *tail: int) -> FloatArray:
+    return np.zeros((*batch_c, 0, *tail))
 
 
 def recover(
@@ -88,56 +94,51 @@ def recover(
     """
     batch_c = U.shape[:-1]
     n_nodes = model.n_nodes
-    disp = U.reshape(*batch_c, n_nodes, 6)
 
     # Beams: local end forces and energies.
     if model.beams.count and mats is not None:
-        u_loc = _apply(mats.T, _gather(U, assemble.beam_dofs(model)))
+        u_loc = _to_local(mats.R, U.take(assemble.beam_dofs(model), axis=-1))
         f_el = _apply(mats.k_local, u_loc)
-        beam_energy = 0.5 * np.sum(u_loc * f_el, axis=-1)
-        beam_forces = f_el if beam_kg is None else f_el + np.einsum(
-            "...nab,...nb->...na", beam_kg, u_loc)
+        beam_energy = 0.5 * np.einsum("...i,...i->...", u_loc, f_el)
+        beam_forces = f_el if beam_kg is None else f_el + (beam_kg @ u_loc[..., None])[..., 0]
     else:
-        beam_forces = np.zeros((*batch_c, 0, 12))
-        beam_energy = np.zeros((*batch_c, 0))
+        beam_forces = _no_elements(batch_c, 12)
+        beam_energy = _no_elements(batch_c)
 
-    # Rigid constraint forces: K u + Cᵀ f = F at the free DOFs.
-    C = assemble.constraint_rows(model)
+    # Supports: K u = F + reactions at the fixed DOFs, with rigid constraint forces Cᵀ f
+    # among the internal forces: K u + Cᵀ f = F at the free DOFs.
     fixed = model.fixed.reshape(-1)
-    residual = F - K_u
-    if C.shape[-2]:
+    rigid = model.connectors.rigid
+    support = K_u - F
+    if np.count_nonzero(rigid):
+        C = assemble.constraint_rows(model)
         Cf = C[..., ~fixed]
-        r = residual[..., ~fixed]
         f_rigid = np.linalg.solve(
             Cf @ np.swapaxes(Cf, -1, -2),
-            np.einsum("...rd,...cd->...rc", Cf, r),
+            -np.einsum("...rd,...cd->...rc", Cf, support[..., ~fixed]),
         )
         f_rigid = np.swapaxes(f_rigid, -1, -2)  # (..., c, n_rigid)
-        CT_f = np.einsum("...rd,...cr->...cd", C, f_rigid)
+        support = support + np.einsum("...rd,...cr->...cd", C, f_rigid)
     else:
         f_rigid = np.zeros((*batch_c, 0))
-        CT_f = np.zeros_like(U)
 
     # Connectors: elastic k·Δ, rigid components from the constraint forces.
-    n_c = model.connectors.count
-    if n_c:
+    if model.connectors.count:
         G = assemble.connector_kinematics(model)
-        delta = _apply(G, _gather(U, assemble.connector_dofs(model)))
+        delta = _apply(G, U[..., assemble.connector_dofs(model)])
         k = model.connectors.stiffness
-        k_el = np.where(np.isinf(k), 0.0, k)
-        k_el = k_el[..., None, :, :]
+        k_el = np.where(np.isinf(k), 0.0, k)[..., None, :, :]
         conn = k_el * delta
-        connector_energy = 0.5 * np.sum(k_el * delta * delta, axis=-1)
-        which, comp = np.nonzero(model.connectors.rigid)
+        connector_energy = 0.5 * np.sum(conn * delta, axis=-1)
+        which, comp = np.nonzero(rigid)
         conn[..., which, comp] = f_rigid
     else:
-        conn = np.zeros((*batch_c, 0, 6))
-        connector_energy = np.zeros((*batch_c, 0))
+        conn = _no_elements(batch_c, 6)
+        connector_energy = _no_elements(batch_c)
 
     # Springs: tension and energy.
-    n_s = model.springs.count
-    if n_s:
-        u_s = _gather(U, assemble.spring_dofs(model))
+    if model.springs.count:
+        u_s = U[..., assemble.spring_dofs(model)]
         e, _ = assemble.spring_axes(model)
         stretch = np.einsum("...nk,...cnk->...cn", e, u_s[..., 3:] - u_s[..., :3])
         spring_forces = model.springs.tension[..., None, :] + model.springs.rate[
@@ -146,14 +147,15 @@ def recover(
         spring_energy = 0.5 * np.sum(u_s * _apply(ks, u_s), axis=-1)
     else:
         spring_forces = np.zeros((*batch_c, 0))
-        spring_energy = np.zeros((*batch_c, 0))
+        spring_energy = _no_elements(batch_c)
 
-    # Reactions: supports, then ground springs.
-    ground = model.ground.reshape(*model.ground.shape[:-2], 1, n_nodes * 6)
-    reactions = np.where(fixed, -(residual - CT_f), 0.0) - ground * U
-    ground_energy = 0.5 * (ground * U * U).reshape(*batch_c, n_nodes, 6).sum(-1)
+    # Reactions: supports, then ground springs (−g u on the structure).
+    ground_u = model.ground.reshape(*model.ground.shape[:-2], 1, n_nodes * 6) * U
+    reactions = np.where(fixed, support, 0.0) - ground_u
+    ground_energy = 0.5 * np.einsum("...ij,...ij->...i", ground_u.reshape(*batch_c, n_nodes, 6),
+                                    U.reshape(*batch_c, n_nodes, 6))
     return Solution(
-        displacements=disp,
+        displacements=U.reshape(*batch_c, n_nodes, 6),
         reactions=reactions.reshape(*batch_c, n_nodes, 6),
         beam_forces=beam_forces,
         connector_forces=conn,
