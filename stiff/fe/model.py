@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import TypeVar
 
 import numpy as np
 import numpy.typing as npt
@@ -35,6 +36,23 @@ def _pairs(a: npt.ArrayLike) -> IntArray:
     return out
 
 
+_Array = TypeVar("_Array", bound=npt.NDArray[np.generic])
+
+
+def _read_only(a: _Array) -> _Array:
+    a.flags.writeable = False
+    return a
+
+
+# Empty arrays shared by every empty element set (read-only: they hold nothing).
+_NO_PAIRS: IntArray = _read_only(np.zeros((0, 2), np.intp))
+_NO_VALUES: FloatArray = _read_only(np.zeros(0))
+_NO_REF: FloatArray = _read_only(np.zeros((0, 3)))
+_NO_RELEASES: BoolArray = _read_only(np.zeros((0, 12), bool))
+_NO_STIFFNESS: FloatArray = _read_only(np.zeros((0, 6)))
+_NO_FRAMES: FloatArray = _read_only(np.zeros((0, 3, 3)))
+
+
 def _filled(a: npt.ArrayLike, shape: tuple[int, ...]) -> FloatArray:
     """A new float array of ``shape`` holding ``a`` broadcast to it (ValueError if it can't)."""
     out = np.empty(shape)
@@ -46,7 +64,8 @@ def _per_item(a: npt.ArrayLike, n: int, tail: tuple[int, ...] = ()) -> FloatArra
     """``a`` as a new (..., n, *tail) array: scalars and per-item rows broadcast to n items."""
     v = np.asarray(a, dtype=np.float64)
     lead = v.shape[: v.ndim - len(tail) - 1] if v.ndim > len(tail) else ()
-    return _filled(v, (*lead, n, *tail))
+    shape = (*lead, n, *tail)
+    return v.copy() if v.shape == shape else _filled(v, shape)
 
 
 @dataclass(frozen=True)
@@ -118,9 +137,9 @@ class Beams:
     @staticmethod
     def none() -> Beams:
         """No members."""
-        e = np.zeros(0)
-        return Beams(nodes=np.zeros((0, 2), np.intp), E=e, G=e, A=e, Iy=e, Iz=e, J=e, Asy=e,
-                     Asz=e, ref=np.zeros((0, 3)), releases=np.zeros((0, 12), bool), names=())
+        e = _NO_VALUES
+        return Beams(nodes=_NO_PAIRS, E=e, G=e, A=e, Iy=e, Iz=e, J=e, Asy=e, Asz=e,
+                     ref=_NO_REF, releases=_NO_RELEASES, names=())
 
     @property
     def count(self) -> int:
@@ -171,8 +190,7 @@ class Connectors:
     @staticmethod
     def none() -> Connectors:
         """No connectors."""
-        return Connectors(nodes=np.zeros((0, 2), np.intp), stiffness=np.zeros((0, 6)),
-                          frame=np.zeros((0, 3, 3)), names=())
+        return Connectors(nodes=_NO_PAIRS, stiffness=_NO_STIFFNESS, frame=_NO_FRAMES, names=())
 
     @property
     def count(self) -> int:
@@ -224,8 +242,7 @@ class Springs:
     @staticmethod
     def none() -> Springs:
         """No springs."""
-        return Springs(nodes=np.zeros((0, 2), np.intp), rate=np.zeros(0), tension=np.zeros(0),
-                       names=())
+        return Springs(nodes=_NO_PAIRS, rate=_NO_VALUES, tension=_NO_VALUES, names=())
 
     @property
     def count(self) -> int:
@@ -351,30 +368,29 @@ def _check_sections(b: Beams) -> None:
 def _check_geometry(model: FrameModel) -> None:
     """No member of zero length, none along its reference vector.
 
-    With d the member's vector and r its reference vector, the Gram matrix of the pair gives
-    |d|² and the sine of their angle through |d × r|² = |d|²|r|² − (d·r)², so one small matmul
-    covers both checks. Rounding in that difference is ~1e-16 of |d|²|r|², far below the
-    1e-12 (sine 1e-6) at which the reference vector counts as parallel.
+    With d the member's vector and r its reference vector, their Gram matrix gives |d|² and
+    |d × r|² = |d|²|r|² − (d·r)², so one small matmul serves both checks. Rounding in that
+    difference is ~1e-16 of |d|²|r|², far below the 1e-12 (a sine of 1e-6) at which the
+    reference vector counts as parallel.
     """
     b = model.beams
     ends = model.xyz[..., b.nodes, :]
     d = ends[..., 1, :] - ends[..., 0, :]
     ref = b.ref if b.ref.shape == d.shape else np.broadcast_to(b.ref, d.shape)
-    pair = np.stack((d, ref), axis=-2)
-    gram = (pair @ np.swapaxes(pair, -1, -2)).reshape(*d.shape[:-1], 4)
-    dd, rr = gram[..., 0], gram[..., 3]
-    xyz = model.xyz.reshape(-1, 3)
-    # the model's size: the largest extent along an axis (at most the spread of all coordinates)
-    if dd.min() > (1e-9 * max(float(xyz.max() - xyz.min()), 1.0)) ** 2:
-        short = np.zeros(dd.shape, bool)
-    else:
-        scale = max(float(np.ptp(xyz, axis=0).max()), 1.0)
-        short = ~(1e-9 * scale < np.sqrt(dd))
+    pair = np.concatenate((d, ref), axis=-1).reshape(*d.shape[:-1], 2, 3)
+    gram = pair @ np.swapaxes(pair, -1, -2)
+    dd, dr, rr = gram[..., 0, 0], gram[..., 0, 1], gram[..., 1, 1]
+    # the model's size: its largest extent along an axis, at most the spread of all coordinates
+    spread = max(float(model.xyz.max() - model.xyz.min()), 1.0)
+    if dd.min() > (1e-9 * spread) ** 2 and not np.count_nonzero(
+            dr * dr >= (1.0 - 1e-12) * (dd * rr)):
+        return
+    scale = max(float(np.ptp(model.xyz.reshape(-1, 3), axis=0).max()), 1.0)
+    short = ~(1e-9 * scale < np.sqrt(dd))
     if short.any():
         i = int(np.argwhere(short)[0][-1])
         raise ModelError(f"{b.names[i]}: zero-length member (both ends at the same point)")
-    cross2 = dd * rr - gram[..., 1] * gram[..., 2]
-    parallel = ~(cross2 > 1e-12 * (dd * rr))
+    parallel = ~(dd * rr - dr * dr > 1e-12 * (dd * rr))
     if parallel.any():
         i = int(np.argwhere(parallel)[0][-1])
         raise ModelError(f"{b.names[i]}: reference vector is parallel to the member "
@@ -430,11 +446,11 @@ def _check_releases(b: Beams) -> None:
     released block of its stiffness is singular and cannot be condensed. Whether it is
     depends only on which DOFs are released (see :func:`_release_sets`).
     """
-    if not b.releases.any():
+    if not np.count_nonzero(b.releases):
         return
     code = b.releases @ _BITS
     singular = (code[:, None] & _SINGULAR_RELEASES) == _SINGULAR_RELEASES
-    if singular.any():
+    if np.count_nonzero(singular):
         i = int(np.argwhere(singular)[0][0])
         released = ", ".join(_END_DOFS[j] for j in np.flatnonzero(b.releases[i]))
         raise ModelError(f"{b.names[i]}: releases {released} leave it free to move as a "
@@ -483,7 +499,7 @@ def validate(model: FrameModel) -> None:
     """Raise :class:`ModelError` with a one-line reason for the first malformed input."""
     if model.xyz.shape[-1:] != (3,) or model.xyz.ndim < 2:
         raise ModelError(f"node coordinates must have shape (..., n, 3), got {model.xyz.shape}")
-    if not np.isfinite(model.xyz).all():
+    if np.count_nonzero(np.isfinite(model.xyz)) != model.xyz.size:
         i = int(np.argwhere(~np.isfinite(model.xyz))[0][-2])
         raise ModelError(f"{model.node_names[i]}: node coordinates must be finite numbers")
     n = model.n_nodes
