@@ -9,13 +9,14 @@ which keeps only the columns of free DOFs (see :func:`assemble_matrix`).
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
 
 from stiff.fe import element
-from stiff.fe.model import DOFS_PER_NODE, FloatArray, FrameModel, IntArray
+from stiff.fe.model import DOFS_PER_NODE, BoolArray, FloatArray, FrameModel, IntArray
 
 _TRANSLATIONS = np.arange(3)
 _ALL = np.arange(6)
@@ -50,12 +51,18 @@ class BeamMatrices:
     L: FloatArray  # (..., n)
     k_local: FloatArray  # (..., n, 12, 12), releases condensed out
     condensed: IntArray  # (m,) the members with releases
-    S: FloatArray  # (..., m, 12, 12), their condensation maps u = S u_kept
+    released: BoolArray  # (m, 12) their releases
+    k_uncondensed: FloatArray  # (..., m, 12, 12) their local stiffness before condensation
 
     @property
     def T(self) -> FloatArray:
         """(..., n, 12, 12) local-from-global transformation."""
         return element.block_rotation(self.R, 4)
+
+    @property
+    def S(self) -> FloatArray:
+        """(..., m, 12, 12) condensation maps u = S u_kept of the members with releases."""
+        return element.condensation_maps(self.k_uncondensed, self.released)
 
     def condense(self, k: FloatArray, cases: bool = False) -> FloatArray:
         """Sᵀ k S at the released members of local matrices k (..., [c,] n, 12, 12).
@@ -74,16 +81,16 @@ class BeamMatrices:
 def beam_matrices(model: FrameModel) -> BeamMatrices:
     """Rotation, length and condensed local stiffness of every member."""
     b = model.beams
-    ends = model.xyz[..., b.nodes, :]
+    ends = model.xyz.take(b.nodes, axis=-2)
     R, L = element.member_axes(ends[..., 0, :], ends[..., 1, :], b.ref)
     k = element.local_stiffness(b.E, b.G, b.A, b.Iy, b.Iz, b.J, b.Asy, b.Asz, L)
-    condensed = np.flatnonzero(b.releases.any(axis=1))
+    condensed = np.flatnonzero(np.count_nonzero(b.releases, axis=1))
+    released = b.releases.take(condensed, axis=0)
+    k_uncondensed = k.take(condensed, axis=-3)
     if condensed.size:
-        k_c, S = element.condensation(k[..., condensed, :, :], b.releases[condensed])
-        k[..., condensed, :, :] = k_c  # k is this function's own new array
-    else:
-        S = np.zeros((*k.shape[:-3], 0, 12, 12))
-    return BeamMatrices(R=R, L=L, k_local=k, condensed=condensed, S=S)
+        k[..., condensed, :, :] = element.condensation(k_uncondensed, released)
+    return BeamMatrices(R=R, L=L, k_local=k, condensed=condensed, released=released,
+                        k_uncondensed=k_uncondensed)
 
 
 def beam_global(mats: BeamMatrices, k_local: FloatArray | None = None) -> FloatArray:
@@ -162,24 +169,28 @@ def spring_geometric(model: FrameModel, tension: FloatArray) -> FloatArray:
     )
 
 
-#: An element matrix to assemble: values (..., n, e) and the global DOFs (n, e) of the row
-#: and the column of each of its e entries.
+#: An element matrix to assemble: values (..., n, e) and the global DOFs of the row and of the
+#: column of its e entries, as (n, ...) arrays that broadcast to the entries' layout.
 Part = tuple[FloatArray, IntArray, IntArray]
 
 
 def square_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
-    """Row and column DOFs (n, k·k) of the entries of (n, k, k) matrices in C order."""
-    k = dofs.shape[1]
-    return np.repeat(dofs, k, axis=1), np.tile(dofs, (1, k))
+    """Row and column DOFs of (n, k, k) matrices in C order: (n, k, 1) and (n, 1, k)."""
+    return dofs[:, :, None], dofs[:, None, :]
+
+
+def block_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
+    """Row and column DOFs of member matrices in the block layout of ``element.global_blocks``
+    (entry (4 I + J, 3 i + j) at local DOFs 3 I + i, 3 J + j): (n, 4, 1, 3, 1), (n, 1, 4, 1, 3)."""
+    n = dofs.shape[0]
+    return dofs.reshape(n, 4, 1, 3, 1), dofs.reshape(n, 1, 4, 1, 3)
 
 
 def element_parts(model: FrameModel, mats: BeamMatrices | None) -> list[Part]:
     """The elastic element matrices of a model (members, elastic connectors, springs)."""
     parts: list[Part] = []
     if model.beams.count and mats is not None:
-        dofs = beam_dofs(model)
-        parts.append((beam_global(mats), dofs[:, element.BLOCK_ROWS],
-                      dofs[:, element.BLOCK_COLS]))
+        parts.append((beam_global(mats), *block_entries(beam_dofs(model))))
     if model.connectors.count:
         k = connector_stiffness(model, connector_kinematics(model))
         parts.append((k.reshape(*k.shape[:-2], 144), *square_entries(connector_dofs(model))))
@@ -196,44 +207,40 @@ def assemble_matrix(
     """Σ element matrices, plus a diagonal (..., n_dofs), as (..., n_dofs, n_cols) matrices.
 
     The entry at DOFs (r, c) lands at row ``position[r]`` and column ``position[c]``, and is
-    dropped when that column is ``n_cols`` or more: with ``position`` the identity this is
-    the full matrix; with free DOFs placed first and ``n_cols`` free DOFs, it is the columns
-    of the free DOFs, whose first ``n_cols`` rows are the free-free block and the others the
-    rows of the supports. One ``bincount`` over every entry of every model in the batch.
+    dropped when that column is ``n_cols`` or more. With ``position`` the identity this is the
+    full matrix; with the free DOFs placed first and ``n_cols`` free DOFs it is the columns of
+    the free DOFs: its first ``n_cols`` rows are the free-free block, the others the rows of
+    the supports. Dropped entries go to one spare column past the last (the result is a view
+    without it), so the entries are summed by ``bincount`` without sorting any out; the
+    diagonal (springs to ground) is added where its column is kept.
     """
     n_rows = position.size
-    size = int(np.prod(batch, dtype=np.int64))
+    width = n_cols if n_cols == n_rows else n_cols + 1  # with the spare column
+    column = position if n_cols == n_rows else np.minimum(position, n_cols)
+    size = math.prod(batch)
+    bins = n_rows * width
     targets, weights = [], []
     for values, rows, cols in parts:
-        if not rows.size:
-            continue
-        col = position[cols].reshape(-1)
-        target = position[rows].reshape(-1) * n_cols + col
-        w = values if values.shape[:-2] == batch else np.broadcast_to(
-            values, (*batch, *values.shape[-2:]))
-        w = w.reshape(size, -1)
-        if n_cols < n_rows:
-            keep = np.flatnonzero(col < n_cols)
-            target, w = target[keep], w[:, keep]
-        targets.append(target)
-        weights.append(w)
-    bins = n_rows * n_cols
-    if not targets:
-        flat = np.zeros((size, bins))
-    else:
+        if rows.size:
+            targets.append((position.take(rows) * width + column.take(cols)).reshape(-1))
+            w = values if values.shape[:-2] == batch else np.broadcast_to(
+                values, (*batch, *values.shape[-2:]))
+            weights.append(w.reshape(size, -1))
+    out = np.zeros((size, bins))
+    if targets:
         target = targets[0] if len(targets) == 1 else np.concatenate(targets)
         weight = weights[0] if len(weights) == 1 else np.concatenate(weights, axis=1)
-        if size > 1:  # model i's entries go to bins i·bins ... (i + 1)·bins - 1
-            target = (target[None, :] + np.arange(0, size * bins, bins)[:, None]).reshape(-1)
-        flat = np.bincount(target, weights=weight.reshape(-1), minlength=size * bins).astype(
-            np.float64, copy=False).reshape(size, bins)
+        # One bincount a model: a single call over the batch would need a (models × entries)
+        # index array and a result of the whole chunk at once; per model, the temporaries
+        # are small and reused, which keeps a large batch out of fresh memory (page faults
+        # cost more than the loop).
+        for i in range(size):
+            out[i] = np.bincount(target, weights=weight[i], minlength=bins)
     if diagonal is not None:
         dofs = np.flatnonzero(position < n_cols)
-        where = position[dofs] * (n_cols + 1)
-        diag = diagonal if diagonal.shape[:-1] == batch else np.broadcast_to(
-            diagonal, (*batch, diagonal.shape[-1]))
-        flat[:, where] += diag.reshape(size, -1)[:, dofs]
-    return flat.reshape(*batch, n_rows, n_cols)
+        where = position.take(dofs) * (width + 1)
+        out[:, where] += diagonal.reshape(-1, n_rows).take(dofs, axis=1)
+    return out.reshape(*batch, n_rows, width)[..., :n_cols]
 
 
 def ground_diagonal(model: FrameModel) -> FloatArray:

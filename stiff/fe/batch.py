@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 from collections.abc import Sequence
 from dataclasses import replace
 
@@ -75,7 +76,7 @@ def stack(models: Sequence[FrameModel]) -> FrameModel:
 
 def batch_size(batch: tuple[int, ...]) -> int:
     """Number of models in a batch shape."""
-    return int(np.prod(batch, dtype=np.int64))
+    return math.prod(batch)
 
 
 def flat_slice(model: FrameModel, batch: tuple[int, ...], start: int, stop: int) -> FrameModel:

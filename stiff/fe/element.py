@@ -91,11 +91,12 @@ _B6 = _bending([[0, 6, 0, 6], [6, 0, -6, 0], [0, -6, 0, -6], [6, 0, -6, 0]])
 _B42 = _bending([[0, 0, 0, 0], [0, 4, 0, 2], [0, 0, 0, 0], [0, 2, 0, 4]])
 _BPHI = _bending([[0, 0, 0, 0], [0, 1, 0, -1], [0, 0, 0, 0], [0, -1, 0, 1]])
 
-#: Basis of :func:`local_stiffness` over the coefficients of :func:`stiffness_coefficients`.
+#: Basis of :func:`local_stiffness` over the coefficients of :func:`stiffness_coefficients`:
+#: axial, torsion, then each bending pattern for the x-y and the x-z plane.
 STIFFNESS_BASIS = _basis(
     [[(_AX, _PAIR)], [(_TO, _PAIR)]]
-    + [[(_XY, b)] for b in (_B12, _B6, _B42, _BPHI)]
-    + [[(_XZ, b * _FLIP)] for b in (_B12, _B6, _B42, _BPHI)]
+    + [[(idx, b * sign)] for b in (_B6, _B12, _B42, _BPHI)
+       for idx, sign in ((_XY, 1.0), (_XZ, _FLIP))]
 )
 
 # The geometric x-y block is N/L·(6/5 P) + N·(1/10 Q) + N L·(2/15, -1/30 pattern):
@@ -109,6 +110,15 @@ GEOMETRIC_BASIS = _basis(
 )
 
 
+def _shape(*arrays: FloatArray) -> tuple[int, ...]:
+    """The common (broadcast) shape of arrays."""
+    shape = arrays[0].shape
+    for a in arrays:
+        if a.shape != shape:
+            return tuple(np.broadcast_shapes(*(a.shape for a in arrays)))
+    return shape
+
+
 def stiffness_coefficients(
     E: FloatArray,
     G: FloatArray,
@@ -120,31 +130,34 @@ def stiffness_coefficients(
     Asz: FloatArray,
     L: FloatArray,
 ) -> FloatArray:
-    """(..., 10) coefficients of :data:`STIFFNESS_BASIS`: E A / L, G J / L, then for the x-y
-    plane (E Iz, Asy) and the x-z plane (E Iy, Asz) c, c L, c L², c Φ L² with
-    c = E I / ((1 + Φ) L³) and Φ = 12 E I / (G As L²). Units follow the arguments of
-    :func:`local_stiffness`."""
-    L2 = L * L
-    axial = E * A / L
-    torsion = G * J / L
-    shape = axial.shape
-    planes = []
-    for EI, As in ((E * Iz, Asy), (E * Iy, Asz)):
-        phi = 12.0 * EI / (G * As * L2)
-        cL2 = EI / ((1.0 + phi) * L)  # c L²
-        planes.append((cL2, phi))
-        shape = shape if cL2.shape == shape else np.broadcast_shapes(shape, cL2.shape)
-    if torsion.shape != shape:
-        shape = np.broadcast_shapes(shape, torsion.shape)
+    """(..., 10) coefficients of :data:`STIFFNESS_BASIS`.
+
+    E A / L, G J / L, then with c = E I / ((1 + Φ) L³), Φ = 12 E I / (G As L²) for the x-y
+    plane (E Iz, Asy) and the x-z plane (E Iy, Asz): c L (y, z), c (y, z), c L² (y, z),
+    c Φ L² (y, z). Units follow the arguments of :func:`local_stiffness`.
+    """
+    shape = _shape(E, G, A, Iy, Iz, J, Asy, Asz, L)
     out = np.empty((*shape, 10))
-    out[..., 0] = axial
-    out[..., 1] = torsion
-    for p, (cL2, phi) in enumerate(planes):
-        c = out[..., 2 + 4 * p : 6 + 4 * p]
-        np.divide(cL2, L, out=c[..., 1])
-        np.divide(c[..., 1], L, out=c[..., 0])
-        c[..., 2] = cL2
-        np.multiply(cL2, phi, out=c[..., 3])
+    c = out.transpose(len(shape), *range(len(shape)))  # (10, ...) view, coefficient first
+    np.multiply(E, A, out=c[0])
+    np.multiply(G, J, out=c[1])
+    c[:2] /= L
+    EI = np.empty((2, *shape))  # the x-y plane, then the x-z plane
+    np.multiply(E, Iz, out=EI[0])
+    np.multiply(E, Iy, out=EI[1])
+    phi = np.empty((2, *shape))
+    np.multiply(G, Asy, out=phi[0])
+    np.multiply(G, Asz, out=phi[1])
+    phi *= L * L
+    np.divide(EI, phi, out=phi)
+    phi *= 12.0  # Φ
+    cL2 = c[6:8]
+    np.add(phi, 1.0, out=cL2)
+    cL2 *= L
+    np.divide(EI, cL2, out=cL2)  # c L² = E I / ((1 + Φ) L)
+    np.multiply(cL2, phi, out=c[8:10])
+    np.divide(cL2, L, out=c[2:4])
+    np.divide(c[2:4], L, out=c[4:6])
     return out
 
 
@@ -211,14 +224,21 @@ def member_axes(
     """
     d = xyz_2 - xyz_1
     L = np.sqrt(np.einsum("...i,...i->...", d, d))
-    R = np.empty((*np.broadcast_shapes(d.shape, ref.shape)[:-1], 3, 3))
+    shape = d.shape if ref.shape == d.shape else np.broadcast_shapes(d.shape, ref.shape)
+    R = np.empty((*shape[:-1], 3, 3))
     ex, ey, ez = R[..., 0, :], R[..., 1, :], R[..., 2, :]
     np.divide(d, L[..., None], out=ex)
-    np.subtract(ref, np.einsum("...i,...i->...", ref, ex)[..., None] * ex, out=ez)
-    ez /= np.sqrt(np.einsum("...i,...i->...", ez, ez))[..., None]
-    np.matmul((ez[..., :, None] * ex[..., None, :]).reshape(*ez.shape[:-1], 9), _LEVI_CIVITA,
-              out=ey)
+    # y = z × x is ref × x normalised (ref = a x + b z with b > 0), then z = x × y
+    _cross(ref, ex, out=ey)
+    ey /= np.sqrt(np.einsum("...i,...i->...", ey, ey))[..., None]
+    _cross(ex, ey, out=ez)
     return R, L
+
+
+def _cross(a: FloatArray, b: FloatArray, out: FloatArray) -> None:
+    """a × b over the last axis into ``out``: the outer product times the Levi-Civita table."""
+    outer = a[..., :, None] * b[..., None, :]
+    np.matmul(outer.reshape(*outer.shape[:-2], 9), _LEVI_CIVITA, out=out)
 
 
 def block_rotation(R: FloatArray, blocks: int) -> FloatArray:
@@ -267,8 +287,9 @@ def global_blocks(k_local: FloatArray, R: FloatArray) -> FloatArray:
     (3 I + i, 3 J + j), i.e. rows :data:`BLOCK_ROWS` and columns :data:`BLOCK_COLS`.
     """
     Rf = R.reshape(*R.shape[:-2], 9)
-    outer = Rf[..., _OUTER_A] * Rf[..., _OUTER_B]
-    pairs = k_local.reshape(*k_local.shape[:-2], 144)[..., _BLOCK_ENTRIES]
+    outer = Rf.take(_OUTER_A, axis=-1)
+    outer *= Rf.take(_OUTER_B, axis=-1)
+    pairs = k_local.reshape(*k_local.shape[:-2], 144).take(_BLOCK_ENTRIES, axis=-1)
     out: FloatArray = pairs @ outer
     return out
 
@@ -281,27 +302,62 @@ def blocks_to_matrix(blocks: FloatArray) -> FloatArray:
 
 # --- static condensation ----------------------------------------------------------------------
 _EYE12 = _frozen(np.eye(12))
+# Which of the four independent blocks each member DOF belongs to: axial, bending x-y,
+# bending x-z, torsion (u, v, w, θx, θy, θz at each end).
+_BLOCK_OF = np.array([0, 1, 2, 3, 2, 1, 0, 1, 2, 3, 2, 1])
+# _EARLIER[i, j]: DOF i comes before DOF j in the same block
+_EARLIER = (_BLOCK_OF[:, None] == _BLOCK_OF[None, :]) & np.less.outer(np.arange(12),
+                                                                      np.arange(12))
 
 
-def condensation(k: FloatArray, released: BoolArray) -> tuple[FloatArray, FloatArray]:
+def elimination_rounds(released: BoolArray) -> tuple[BoolArray, BoolArray]:
+    """Released DOFs (m, 12) split into two rounds: each block's first released DOF, then its
+    second. A sound pattern releases at most two DOFs of a block (a third, or both ends of
+    the axial or torsion block, leaves a rigid-body motion; see ``model._release_sets``)."""
+    first = released > (released @ _EARLIER)  # released, and none earlier in its block
+    return first, released ^ first
+
+
+def _eliminate(
+    k: FloatArray, released: BoolArray, maps: bool
+) -> tuple[FloatArray, FloatArray | None]:
+    """The elimination rounds of :func:`condensation` (and the maps S of each, if ``maps``)."""
+    S: FloatArray | None = None
+    for eliminate in elimination_rounds(released):
+        if not np.count_nonzero(eliminate):
+            continue
+        w = np.divide(1.0, k.diagonal(axis1=-2, axis2=-1), out=np.zeros(k.shape[:-1]),
+                      where=eliminate)
+        Wk = w[..., :, None] * k
+        k = k - k @ Wk
+        if maps:
+            S = _EYE12 - Wk if S is None else S @ (_EYE12 - Wk)
+    return k, S
+
+
+def condensation(k: FloatArray, released: BoolArray) -> FloatArray:
     """Condense released DOFs out of member matrices k (..., m, 12, 12), released (m, 12).
 
-    The released end forces are zero, so u_r = -K_rr⁻¹ K_rk u_k. With D the released DOFs,
-    one batched solve for all members whatever their pattern: M = D k D + (I − D) is K_rr on
-    the released block and the identity on the kept one, so X = M⁻¹ D k holds K_rr⁻¹ K_r· in
-    its released rows and zeros elsewhere. The map S = (I − X) with its released columns
-    zeroed gives u = S u_kept, and since the released rows of k S vanish, Sᵀ k S = k S: the
-    condensed matrix, zero in the released rows and columns (set to exact zeros).
-    The release patterns are checked when the model is made, so every K_rr is regular.
+    The released end forces are zero, so u_r = -K_rr⁻¹ K_rk u_k, and the condensed matrix is
+    the Schur complement k - k[:, r] K_rr⁻¹ k[r, :]. It is reached by Gaussian elimination
+    one released DOF j at a time, k ← k - k[:, j] k[j, :] / k[j, j], which maps
+    u = S_j u' with S_j = I - e_j k[j, :] / k[j, j] (u_j from the others, the column of j
+    zero) and k ← S_jᵀ k S_j = k S_j. The four blocks (axial, torsion, two bending planes)
+    never couple, so one DOF of every block is eliminated at once, W = diag(w_j = 1/k_jj)
+    over them: k ← k - k W k. Two such rounds eliminate every sound pattern (see
+    :func:`elimination_rounds`); the pivots k_jj are positive since each released block is
+    regular (checked when the model is made).
 
-    Returns
-    -------
-    k_condensed : (..., m, 12, 12)
-    S : (..., m, 12, 12) condensation maps, also used for the geometric stiffness
+    Returns the condensed matrices (..., m, 12, 12), with exact zeros in the released rows
+    and columns.
     """
-    rows = released[:, :, None]
-    cols = released[:, None, :]
-    X = np.linalg.solve(np.where(rows & cols, k, _EYE12), np.where(rows, k, 0.0))
-    S = np.where(cols, 0.0, _EYE12 - X)
-    k_condensed = np.where(rows | cols, 0.0, k @ S)
-    return k_condensed, S
+    k_condensed, _ = _eliminate(k, released, maps=False)
+    kept = ~released
+    return k_condensed * (kept[:, :, None] & kept[:, None, :])
+
+
+def condensation_maps(k: FloatArray, released: BoolArray) -> FloatArray:
+    """Maps S (..., m, 12, 12) with u = S u_kept of :func:`condensation` (S = S_1 S_2 over
+    its rounds), so that Sᵀ k S is the condensed matrix; used for the geometric stiffness."""
+    _, S = _eliminate(k, released, maps=True)
+    return np.broadcast_to(_EYE12, k.shape).copy() if S is None else S

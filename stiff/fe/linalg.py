@@ -8,6 +8,8 @@ linkage (tens of DOFs) the per-matrix call overhead is a few microseconds.
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy.linalg import lapack
 
@@ -34,7 +36,7 @@ def spd_solve(K: FloatArray, F: FloatArray) -> tuple[FloatArray, BoolArray]:
     """
     batch = K.shape[:-2] if K.shape[:-2] == F.shape[:-2] else np.broadcast_shapes(
         K.shape[:-2], F.shape[:-2])
-    size = int(np.prod(batch, dtype=np.int64))
+    size = math.prod(batch)
     n, m = K.shape[-1], F.shape[-1]
     mats = (K if K.shape[:-2] == batch else np.broadcast_to(K, (*batch, n, n))).reshape(
         size, n, n)
@@ -50,8 +52,8 @@ def spd_solve(K: FloatArray, F: FloatArray) -> tuple[FloatArray, BoolArray]:
         # K is symmetric, so K.T is the same matrix in the Fortran order LAPACK wants: no copy
         c, out[i], info[i] = dposv(mats[i].T, rhs[i], lower=True)
         pivots[i] = c.diagonal()
-    diag = np.diagonal(mats, axis1=-2, axis2=-1)
-    ok = (info == 0) & np.all(pivots * pivots >= PIVOT_TOLERANCE * diag, axis=-1)
+    diag = mats.diagonal(axis1=-2, axis2=-1)
+    ok = (info == 0) & (pivots * pivots >= PIVOT_TOLERANCE * diag).all(axis=-1)
     return out.reshape(*batch, n, m), ok.reshape(batch)
 
 

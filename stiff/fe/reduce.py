@@ -57,7 +57,7 @@ class Reduction:
 
     def project_rhs(self, F: FloatArray) -> FloatArray:
         """Tᵀ F_f for full right-hand sides (..., n_dofs, m)."""
-        F_f = F[..., self.free, :]
+        F_f = F.take(self.free, axis=-2)
         return F_f if self.T is None else np.swapaxes(self.T, -1, -2) @ F_f
 
 

@@ -19,9 +19,19 @@ from stiff.fe.model import DOF_NAMES, DOFS_PER_NODE, FloatArray, FrameModel, Int
 from stiff.fe.reduce import Reduction, case_reduction, checked_solve, reduce
 from stiff.fe.results import Solution, recover
 
-#: Models solved together in one chunk of a batch: large enough to amortise Python overhead,
-#: small enough that a chunk's arrays stay in cache.
+#: Most models solved together in one chunk of a batch.
 CHUNK = 1024
+#: Matrix entries (float64) of one chunk's element and stiffness arrays: a chunk holds as many
+#: models as fit, so that its arrays stay in cache (about 4 MB; on the benchmark's
+#: 10-member leg, 64 to 256 models a chunk run alike and 1024 about half as fast).
+CHUNK_ENTRIES = 1 << 19
+
+
+def _chunk(model: FrameModel) -> int:
+    """Models a chunk of a batch of ``model`` (see ``CHUNK_ENTRIES``)."""
+    per_model = (144 * (model.beams.count + model.connectors.count) + 36 * model.springs.count
+                 + model.n_dofs * model.n_dofs // 2)
+    return max(1, min(CHUNK, CHUNK_ENTRIES // max(per_model, 1)))
 
 
 def _loads_matrix(model: FrameModel, loads: FloatArray) -> FloatArray:
@@ -89,10 +99,13 @@ def _static_chunk(model: FrameModel, F: FloatArray) -> Solution:
     red = fac.red
     q = fac.solve(red.project_rhs(np.swapaxes(F, -1, -2)))
     u_free = q if red.T is None else red.T @ q  # (..., n_free, c)
-    U = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))
-    U[..., red.free] = np.swapaxes(u_free, -1, -2)
-    KU = np.swapaxes(fac.K_cols @ u_free, -1, -2)[..., red.position]
-    F, U = np.broadcast_arrays(F, U)
+    # displacements and K u with the free DOFs first, then in DOF order
+    u_ordered = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))
+    u_ordered[..., : red.free.size] = np.swapaxes(u_free, -1, -2)
+    U = u_ordered.take(red.position, axis=-1)
+    KU = np.swapaxes(fac.K_cols @ u_free, -1, -2).take(red.position, axis=-1)
+    if F.shape != U.shape:
+        F, U = np.broadcast_arrays(F, U)
     return recover(model, U, F, KU, fac.mats)
 
 
@@ -109,19 +122,20 @@ def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
     model_batch = model.batch_shape
     batch = model_batch if model_batch == F.shape[:-2] or F.ndim == 2 else np.broadcast_shapes(
         model_batch, F.shape[:-2])
-    if len(batch) == 0 or batch_size(batch) <= CHUNK:
+    chunk = _chunk(model)
+    if len(batch) == 0 or batch_size(batch) <= chunk:
         return _static_chunk(model, F)
     F = np.broadcast_to(F, (*batch, *F.shape[-2:])).reshape(-1, *F.shape[-2:])
     n = F.shape[0]
-    out: dict[str, FloatArray] = {}
-    for a in range(0, n, CHUNK):
-        part = _static_chunk(flat_slice(model, batch, a, min(a + CHUNK, n)), F[a:a + CHUNK])
-        for name in Solution.__dataclass_fields__:
-            value = getattr(part, name)
-            if name not in out:
-                out[name] = np.empty((n, *value.shape[1:]))
-            out[name][a:a + CHUNK] = value
-    return Solution(**{f: v.reshape(*batch, *v.shape[1:]) for f, v in out.items()})
+    # The chunks' results are joined at the end, not copied out one by one: kept alive, they
+    # sit above each next chunk's temporaries, so the allocator reuses that memory instead of
+    # returning it to the system and faulting it back in for every chunk.
+    parts = [_static_chunk(flat_slice(model, batch, a, min(a + chunk, n)), F[a:a + chunk])
+             for a in range(0, n, chunk)]
+    return Solution(**{
+        name: np.concatenate([getattr(p, name) for p in parts]).reshape(
+            *batch, *getattr(parts[0], name).shape[1:])
+        for name in Solution.__dataclass_fields__})
 
 
 def _displace(fac: Assembled, F: FloatArray) -> tuple[FloatArray, FloatArray, FloatArray]:
@@ -170,9 +184,8 @@ def geometric_stiffness(
     shape = np.broadcast_shapes(model.batch_shape, axial.shape[:-1], spring_change.shape[:-1])
     parts: list[assemble.Part] = []
     if model.beams.count and mats is not None:
-        dofs = assemble.beam_dofs(model)
         parts.append((assemble.beam_geometric(model, mats, axial),
-                      dofs[:, element.BLOCK_ROWS], dofs[:, element.BLOCK_COLS]))
+                      *assemble.block_entries(assemble.beam_dofs(model))))
     if model.springs.count:
         k = assemble.spring_geometric(model, spring_change)
         parts.append((k.reshape(*k.shape[:-2], 36), *assemble.square_entries(

@@ -5,6 +5,9 @@ ends; in a bending plane {v1, v2}, {θ1, v2, θ2} or {v1, θ1, θ2} released). H
 the 4096 patterns is checked against the definition: the released block of the member's
 stiffness is singular. Its smallest eigenvalue is then ~1e-16 of the largest; a sound pattern
 keeps it above ~1e-6 for these well-scaled members, so 1e-10 separates the two sharply.
+
+Every sound pattern is then condensed by ``element.condensation`` (elimination one block DOF
+at a time) and compared with the Schur complement k_kk - k_kr k_rr⁻¹ k_rk written out.
 """
 
 from __future__ import annotations
@@ -36,6 +39,7 @@ def test_every_release_pattern(kind: str) -> None:
                                   ("E", "G", "A", "Iy", "Iz", "J", "Asy", "Asz")),
                                 np.array([1.0]))[0]
     refused = 0
+    sound = []
     for bits in itertools.product([False, True], repeat=12):
         pattern = np.array(bits)
         if not pattern.any():
@@ -51,9 +55,23 @@ def test_every_release_pattern(kind: str) -> None:
             assert str(err).startswith("member 1: releases ")
         else:
             assert not singular_by_eigenvalues(k, pattern), pattern.nonzero()
+            sound.append(pattern)
     # sound patterns: axial and torsion each released at one end at most (3 ways each);
     # each bending plane none, one of its 4 DOFs, or a pair other than {v1, v2} (10 ways)
     assert refused == 4095 - (3 * 3 * 10 * 10 - 1)
+
+    patterns = np.array(sound)
+    ks = np.broadcast_to(k, (len(sound), 12, 12))
+    condensed = element.condensation(ks, patterns)
+    S = element.condensation_maps(ks, patterns)
+    for pattern, k_c, S_p in zip(patterns, condensed, S, strict=True):
+        r, kept = np.flatnonzero(pattern), np.flatnonzero(~pattern)
+        schur = k[np.ix_(kept, kept)] - k[np.ix_(kept, r)] @ np.linalg.solve(
+            k[np.ix_(r, r)], k[np.ix_(r, kept)])
+        # rounding: entries of k span ~1e2 relative, so 1e-13 of the largest is ample
+        assert np.abs(k_c[np.ix_(kept, kept)] - schur).max() <= 1e-13 * np.abs(k).max()
+        assert not k_c[r].any() and not k_c[:, r].any()  # exact zeros at the releases
+        assert np.allclose(S_p.T @ k @ S_p, k_c, rtol=0, atol=1e-13 * np.abs(k).max())
 
 
 def test_message_names_member_and_dofs() -> None:
