@@ -179,11 +179,16 @@ def square_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
     return dofs[:, :, None], dofs[:, None, :]
 
 
+_REPEAT3 = np.repeat(np.arange(3), 3)  # i of entry 3 i + j
+_TILE3 = np.tile(np.arange(3), 3)  # j of entry 3 i + j
+
+
 def block_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
     """Row and column DOFs of member matrices in the block layout of ``element.global_blocks``
-    (entry (4 I + J, 3 i + j) at local DOFs 3 I + i, 3 J + j): (n, 4, 1, 3, 1), (n, 1, 4, 1, 3)."""
-    n = dofs.shape[0]
-    return dofs.reshape(n, 4, 1, 3, 1), dofs.reshape(n, 1, 4, 1, 3)
+    (entry (4 I + J, 3 i + j) at local DOFs 3 I + i, 3 J + j): (n, 4, 1, 9) and (n, 1, 4, 9)."""
+    blocks = dofs.reshape(dofs.shape[0], 4, 3)
+    return (blocks.take(_REPEAT3, axis=-1)[:, :, None, :],
+            blocks.take(_TILE3, axis=-1)[:, None, :, :])
 
 
 def element_parts(model: FrameModel, mats: BeamMatrices | None) -> list[Part]:
@@ -201,20 +206,20 @@ def element_parts(model: FrameModel, mats: BeamMatrices | None) -> list[Part]:
 
 
 def assemble_matrix(
-    position: IntArray, n_cols: int, batch: tuple[int, ...], parts: list[Part],
+    position: IntArray, kept: IntArray, batch: tuple[int, ...], parts: list[Part],
     diagonal: FloatArray | None = None,
 ) -> FloatArray:
     """Σ element matrices, plus a diagonal (..., n_dofs), as (..., n_dofs, n_cols) matrices.
 
-    The entry at DOFs (r, c) lands at row ``position[r]`` and column ``position[c]``, and is
-    dropped when that column is ``n_cols`` or more. With ``position`` the identity this is the
-    full matrix; with the free DOFs placed first and ``n_cols`` free DOFs it is the columns of
-    the free DOFs: its first ``n_cols`` rows are the free-free block, the others the rows of
-    the supports. Dropped entries go to one spare column past the last (the result is a view
-    without it), so the entries are summed by ``bincount`` without sorting any out; the
-    diagonal (springs to ground) is added where its column is kept.
+    The entry at DOFs (r, c) lands at row ``position[r]`` and column ``position[c]``; only the
+    columns of the DOFs ``kept`` are kept, and they must be the first: ``position[kept]`` is
+    0 ... n_cols - 1. With ``position`` the identity and every DOF kept this is the full
+    matrix; with the free DOFs placed first and kept, it is the columns of the free DOFs:
+    its first n_cols rows are the free-free block, the others the rows of the supports.
+    Dropped entries go to one spare column past the last (the result is a view without it),
+    so the entries are summed by ``bincount`` without sorting any out.
     """
-    n_rows = position.size
+    n_rows, n_cols = position.size, kept.size
     width = n_cols if n_cols == n_rows else n_cols + 1  # with the spare column
     column = position if n_cols == n_rows else np.minimum(position, n_cols)
     size = math.prod(batch)
@@ -236,11 +241,10 @@ def assemble_matrix(
         # cost more than the loop).
         for i in range(size):
             out[i] = np.bincount(target, weights=weight[i], minlength=bins)
-    if diagonal is not None:
-        dofs = np.flatnonzero(position < n_cols)
-        where = position.take(dofs) * (width + 1)
-        out[:, where] += diagonal.reshape(-1, n_rows).take(dofs, axis=1)
-    return out.reshape(*batch, n_rows, width)[..., :n_cols]
+    matrices = out.reshape(*batch, n_rows, width)[..., :n_cols]
+    if diagonal is not None:  # a writeable view of the diagonal of the kept block
+        np.einsum("...ii->...i", matrices[..., :n_cols, :])[...] += diagonal.take(kept, axis=-1)
+    return matrices
 
 
 def ground_diagonal(model: FrameModel) -> FloatArray:
@@ -255,16 +259,17 @@ def global_stiffness(model: FrameModel, mats: BeamMatrices | None = None) -> Flo
     """
     if model.beams.count:
         mats = mats or beam_matrices(model)
-    return assemble_matrix(np.arange(model.n_dofs), model.n_dofs, model.batch_shape,
-                           element_parts(model, mats), ground_diagonal(model))
+    every = np.arange(model.n_dofs)
+    return assemble_matrix(every, every, model.batch_shape, element_parts(model, mats),
+                           ground_diagonal(model))
 
 
 def free_columns(
-    model: FrameModel, mats: BeamMatrices | None, position: IntArray, n_free: int
+    model: FrameModel, mats: BeamMatrices | None, position: IntArray, free: IntArray
 ) -> FloatArray:
     """(..., n_dofs, n_free) columns of the stiffness at the free DOFs, rows in the order of
     ``position`` (free DOFs first): the free-free block, then the rows of the supports."""
-    return assemble_matrix(position, n_free, model.batch_shape, element_parts(model, mats),
+    return assemble_matrix(position, free, model.batch_shape, element_parts(model, mats),
                            ground_diagonal(model))
 
 

@@ -110,15 +110,6 @@ GEOMETRIC_BASIS = _basis(
 )
 
 
-def _shape(*arrays: FloatArray) -> tuple[int, ...]:
-    """The common (broadcast) shape of arrays."""
-    shape = arrays[0].shape
-    for a in arrays:
-        if a.shape != shape:
-            return tuple(np.broadcast_shapes(*(a.shape for a in arrays)))
-    return shape
-
-
 def stiffness_coefficients(
     E: FloatArray,
     G: FloatArray,
@@ -136,29 +127,19 @@ def stiffness_coefficients(
     plane (E Iz, Asy) and the x-z plane (E Iy, Asz): c L (y, z), c (y, z), c L² (y, z),
     c Φ L² (y, z). Units follow the arguments of :func:`local_stiffness`.
     """
-    shape = _shape(E, G, A, Iy, Iz, J, Asy, Asz, L)
-    out = np.empty((*shape, 10))
-    c = out.transpose(len(shape), *range(len(shape)))  # (10, ...) view, coefficient first
-    np.multiply(E, A, out=c[0])
-    np.multiply(G, J, out=c[1])
-    c[:2] /= L
-    EI = np.empty((2, *shape))  # the x-y plane, then the x-z plane
-    np.multiply(E, Iz, out=EI[0])
-    np.multiply(E, Iy, out=EI[1])
-    phi = np.empty((2, *shape))
-    np.multiply(G, Asy, out=phi[0])
-    np.multiply(G, Asz, out=phi[1])
-    phi *= L * L
-    np.divide(EI, phi, out=phi)
-    phi *= 12.0  # Φ
-    cL2 = c[6:8]
-    np.add(phi, 1.0, out=cL2)
-    cL2 *= L
-    np.divide(EI, cL2, out=cL2)  # c L² = E I / ((1 + Φ) L)
-    np.multiply(cL2, phi, out=c[8:10])
-    np.divide(cL2, L, out=c[2:4])
-    np.divide(c[2:4], L, out=c[4:6])
-    return out
+    L2 = L * L
+    EIy, EIz = E * Iy, E * Iz
+    phi_y = 12.0 * EIz / (G * Asy * L2)  # Φ of the x-y plane (bending about z)
+    phi_z = 12.0 * EIy / (G * Asz * L2)
+    cL2_y = EIz / ((1.0 + phi_y) * L)  # c L² = E I / ((1 + Φ) L)
+    cL2_z = EIy / ((1.0 + phi_z) * L)
+    columns: tuple[FloatArray, ...] = (
+        E * A / L, G * J / L, cL2_y / L, cL2_z / L, cL2_y / L2, cL2_z / L2, cL2_y, cL2_z,
+        cL2_y * phi_y, cL2_z * phi_z)
+    if any(c.shape != L2.shape for c in columns):
+        columns = tuple(np.broadcast_arrays(*columns))
+    coef = np.array(columns)  # (10, ...)
+    return coef.transpose(*range(1, coef.ndim), 0)
 
 
 def local_stiffness(

@@ -43,22 +43,21 @@ def spd_solve(K: FloatArray, F: FloatArray) -> tuple[FloatArray, BoolArray]:
     rhs = (F if F.shape[:-2] == batch else np.broadcast_to(F, (*batch, n, m))).reshape(
         size, n, m)
     out = np.empty((size, n, m))
-    info = np.zeros(size, np.intp)
     if n == 0:
         return out.reshape(*batch, n, m), np.ones(batch, bool)
     pivots = np.empty((size, n))
     dposv = lapack.dposv
     for i in range(size):
-        # K is symmetric, so K.T is the same matrix in the Fortran order LAPACK wants: no copy
-        c, out[i], info[i] = dposv(mats[i].T, rhs[i], lower=True)
-        pivots[i] = c.diagonal()
-    diag = mats.diagonal(axis1=-2, axis2=-1)
-    ok = (info == 0) & (pivots * pivots >= PIVOT_TOLERANCE * diag).all(axis=-1)
+        # K is symmetric, so K.T is the same matrix in the Fortran order LAPACK wants
+        c, out[i], info = dposv(mats[i].T, rhs[i], lower=True)
+        pivots[i] = c.diagonal() if info == 0 else np.nan  # a failed factor fails the test
+    sound = pivots * pivots >= PIVOT_TOLERANCE * mats.diagonal(axis1=-2, axis2=-1)
+    ok: BoolArray = np.asarray(sound.all(axis=-1))
     return out.reshape(*batch, n, m), ok.reshape(batch)
 
 
 def first_bad(ok: BoolArray) -> tuple[int, ...] | None:
     """Batch index of the first unsound factor, or None."""
-    if np.all(ok):
+    if np.count_nonzero(ok) == np.size(ok):
         return None
     return tuple(int(i) for i in np.argwhere(~np.asarray(ok))[0])

@@ -62,6 +62,8 @@ def _filled(a: npt.ArrayLike, shape: tuple[int, ...]) -> FloatArray:
 
 def _per_item(a: npt.ArrayLike, n: int, tail: tuple[int, ...] = ()) -> FloatArray:
     """``a`` as a new (..., n, *tail) array: scalars and per-item rows broadcast to n items."""
+    if isinstance(a, np.ndarray) and a.dtype == np.float64 and a.shape == (n, *tail):
+        return a.copy()
     v = np.asarray(a, dtype=np.float64)
     lead = v.shape[: v.ndim - len(tail) - 1] if v.ndim > len(tail) else ()
     shape = (*lead, n, *tail)
@@ -137,9 +139,7 @@ class Beams:
     @staticmethod
     def none() -> Beams:
         """No members."""
-        e = _NO_VALUES
-        return Beams(nodes=_NO_PAIRS, E=e, G=e, A=e, Iy=e, Iz=e, J=e, Asy=e, Asz=e,
-                     ref=_NO_REF, releases=_NO_RELEASES, names=())
+        return _NO_BEAMS
 
     @property
     def count(self) -> int:
@@ -190,7 +190,7 @@ class Connectors:
     @staticmethod
     def none() -> Connectors:
         """No connectors."""
-        return Connectors(nodes=_NO_PAIRS, stiffness=_NO_STIFFNESS, frame=_NO_FRAMES, names=())
+        return _NO_CONNECTORS
 
     @property
     def count(self) -> int:
@@ -242,12 +242,20 @@ class Springs:
     @staticmethod
     def none() -> Springs:
         """No springs."""
-        return Springs(nodes=_NO_PAIRS, rate=_NO_VALUES, tension=_NO_VALUES, names=())
+        return _NO_SPRINGS
 
     @property
     def count(self) -> int:
         """Number of springs."""
         return int(self.nodes.shape[0])
+
+
+# The empty element sets: frozen, over read-only empty arrays, so one of each serves all.
+_NO_BEAMS = Beams(nodes=_NO_PAIRS, E=_NO_VALUES, G=_NO_VALUES, A=_NO_VALUES, Iy=_NO_VALUES,
+                  Iz=_NO_VALUES, J=_NO_VALUES, Asy=_NO_VALUES, Asz=_NO_VALUES, ref=_NO_REF,
+                  releases=_NO_RELEASES, names=())
+_NO_CONNECTORS = Connectors(nodes=_NO_PAIRS, stiffness=_NO_STIFFNESS, frame=_NO_FRAMES, names=())
+_NO_SPRINGS = Springs(nodes=_NO_PAIRS, rate=_NO_VALUES, tension=_NO_VALUES, names=())
 
 
 @dataclass(frozen=True)
@@ -335,7 +343,9 @@ def _positive(what: str, values: FloatArray, labels: tuple[str, ...]) -> None:
 
 
 def _check_nodes(kind: str, conn: IntArray, n_nodes: int, labels: tuple[str, ...]) -> None:
-    if conn.size and conn.min() >= 0 and conn.max() < n_nodes:
+    # as unsigned numbers, negative indices are huge: one comparison catches both ends
+    as_unsigned = conn.view(np.uintp) if conn.dtype == np.intp else conn.astype(np.uintp)
+    if not np.count_nonzero(as_unsigned >= n_nodes):
         return
     bad = (conn < 0) | (conn >= n_nodes)
     if bad.any():
@@ -352,9 +362,12 @@ _SECTION = (("E", "E [MPa]"), ("G", "G [MPa]"), ("A", "area [mm²]"), ("Iy", "Iy
 
 def _check_sections(b: Beams) -> None:
     """Every section value a positive number, the first six finite too."""
-    values = [getattr(b, attr).reshape(-1) for attr, _ in _SECTION]
-    every = np.concatenate(values)
-    finite = sum(v.size for v in values[:6])
+    values = (b.E, b.G, b.A, b.Iy, b.Iz, b.J, b.Asy, b.Asz)  # the order of _SECTION
+    if all(v.shape == b.E.shape for v in values):
+        every, finite = np.concatenate(values), 6 * len(b.E)  # stacked along the first axis
+    else:
+        every = np.concatenate([v.reshape(-1) for v in values])
+        finite = sum(v.size for v in values[:6])
     if every.min() > 0.0 and every[:finite].max() < math.inf:
         return
     for attr, what in _SECTION:

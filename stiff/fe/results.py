@@ -99,7 +99,7 @@ def recover(
     if model.beams.count and mats is not None:
         u_loc = _to_local(mats.R, U.take(assemble.beam_dofs(model), axis=-1))
         f_el = _apply(mats.k_local, u_loc)
-        beam_energy = 0.5 * np.einsum("...i,...i->...", u_loc, f_el)
+        beam_energy = 0.5 * (u_loc * f_el).sum(axis=-1)
         beam_forces = f_el if beam_kg is None else f_el + (beam_kg @ u_loc[..., None])[..., 0]
     else:
         beam_forces = _no_elements(batch_c, 12)

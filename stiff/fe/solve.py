@@ -89,7 +89,7 @@ def _reduced(model: FrameModel) -> _Reduced:
     mats = assemble.beam_matrices(model) if model.beams.count else None
     red = reduce(model)
     n_free = red.free.size
-    K_cols = assemble.free_columns(model, mats, red.position, n_free)
+    K_cols = assemble.free_columns(model, mats, red.position, red.free)
     return _Reduced(model=model, mats=mats, K_cols=K_cols, red=red,
                     Kr=red.project_free(K_cols[..., :n_free, :]))
 
@@ -122,8 +122,10 @@ def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
     model_batch = model.batch_shape
     batch = model_batch if model_batch == F.shape[:-2] or F.ndim == 2 else np.broadcast_shapes(
         model_batch, F.shape[:-2])
+    if not batch:
+        return _static_chunk(model, F)
     chunk = _chunk(model)
-    if len(batch) == 0 or batch_size(batch) <= chunk:
+    if batch_size(batch) <= chunk:
         return _static_chunk(model, F)
     F = np.broadcast_to(F, (*batch, *F.shape[-2:])).reshape(-1, *F.shape[-2:])
     n = F.shape[0]
@@ -190,7 +192,8 @@ def geometric_stiffness(
         k = assemble.spring_geometric(model, spring_change)
         parts.append((k.reshape(*k.shape[:-2], 36), *assemble.square_entries(
             assemble.spring_dofs(model))))
-    return assemble.assemble_matrix(np.arange(model.n_dofs), model.n_dofs, shape, parts)
+    every = np.arange(model.n_dofs)
+    return assemble.assemble_matrix(every, every, shape, parts)
 
 
 def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
