@@ -1,10 +1,11 @@
 """Element matrices of a whole model, and their assembly into global arrays.
 
-All element matrices of one kind are built as one (..., n, k, k) array and summed into the
-global matrix by one ``bincount`` over every entry of every model of a batch, rather than a
-Python loop over elements. Where each entry lands is given by a position for every DOF: the
-identity for the full stiffness, or free DOFs first and supported ones after for a solve,
-which keeps only the columns of free DOFs (see :func:`assemble_matrix`).
+All element matrices of one kind are built as one (..., n, k, k) array (members in the block
+layout of ``element.global_blocks``) and summed into the global matrix by a ``bincount`` over
+every entry, rather than a Python loop over elements. Where each entry lands is given by a
+position for every DOF: the identity for the full stiffness, or free DOFs first and supported
+ones after for a solve, which keeps only the columns of free DOFs (see
+:func:`assemble_matrix`).
 """
 
 from __future__ import annotations
@@ -93,12 +94,11 @@ def beam_matrices(model: FrameModel) -> BeamMatrices:
                         k_uncondensed=k_uncondensed)
 
 
-def beam_global(mats: BeamMatrices, k_local: FloatArray | None = None) -> FloatArray:
-    """(..., n, 144) global member matrices in the block layout of ``element.global_blocks``
-    (rows ``element.BLOCK_ROWS``, columns ``element.BLOCK_COLS`` of the member's DOFs), for
-    the condensed stiffness or for other local matrices ``k_local`` (..., n, 12, 12)."""
-    k = mats.k_local if k_local is None else k_local
-    blocks = element.global_blocks(k, mats.R)
+def beam_global(mats: BeamMatrices) -> FloatArray:
+    """(..., n, 144) global condensed member stiffness in the block layout of
+    ``element.global_blocks`` (rows ``element.BLOCK_ROWS``, columns ``element.BLOCK_COLS`` of
+    the member's DOFs)."""
+    blocks = element.global_blocks(mats.k_local, mats.R)
     return blocks.reshape(*blocks.shape[:-2], 144)
 
 
@@ -181,6 +181,7 @@ def square_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
 
 _REPEAT3 = np.repeat(np.arange(3), 3)  # i of entry 3 i + j
 _TILE3 = np.tile(np.arange(3), 3)  # j of entry 3 i + j
+_REPEAT3.flags.writeable = _TILE3.flags.writeable = False
 
 
 def block_entries(dofs: IntArray) -> tuple[IntArray, IntArray]:
@@ -231,16 +232,23 @@ def assemble_matrix(
             w = values if values.shape[:-2] == batch else np.broadcast_to(
                 values, (*batch, *values.shape[-2:]))
             weights.append(w.reshape(size, -1))
-    out = np.zeros((size, bins))
-    if targets:
+    out: FloatArray
+    if not targets:
+        out = np.zeros((size, bins))
+    else:
         target = targets[0] if len(targets) == 1 else np.concatenate(targets)
         weight = weights[0] if len(weights) == 1 else np.concatenate(weights, axis=1)
-        # One bincount a model: a single call over the batch would need a (models × entries)
-        # index array and a result of the whole chunk at once; per model, the temporaries
-        # are small and reused, which keeps a large batch out of fresh memory (page faults
-        # cost more than the loop).
-        for i in range(size):
-            out[i] = np.bincount(target, weights=weight[i], minlength=bins)
+        if size == 1:
+            out = np.bincount(target, weights=weight[0], minlength=bins).astype(
+                np.float64, copy=False)
+        else:
+            # One bincount a model: a single call over the batch would need a (models ×
+            # entries) index array and a result of the whole chunk at once; per model, the
+            # temporaries are small and reused, which keeps a large batch out of fresh
+            # memory (page faults cost more than the loop).
+            out = np.empty((size, bins))
+            for i in range(size):
+                out[i] = np.bincount(target, weights=weight[i], minlength=bins)
     matrices = out.reshape(*batch, n_rows, width)[..., :n_cols]
     if diagonal is not None:  # a writeable view of the diagonal of the kept block
         np.einsum("...ii->...i", matrices[..., :n_cols, :])[...] += diagonal.take(kept, axis=-1)

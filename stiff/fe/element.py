@@ -65,7 +65,15 @@ _PAIR = np.array([[1.0, -1.0], [-1.0, 1.0]])
 
 
 def _frozen(a: npt.ArrayLike) -> FloatArray:
+    """A read-only float constant."""
     out = np.array(a, dtype=np.float64)
+    out.flags.writeable = False
+    return out
+
+
+def _index(a: npt.ArrayLike) -> IntArray:
+    """A read-only index constant."""
+    out = np.array(a, dtype=np.intp)
     out.flags.writeable = False
     return out
 
@@ -241,17 +249,17 @@ def to_global(k_local: FloatArray, R: FloatArray) -> FloatArray:
 # torsion), y y, z z, y z, z y (bending); x y, y x, x z, z x are always zero.
 _PAIRS = np.array([[0, 0], [1, 1], [2, 2], [1, 2], [2, 1]])
 _I3 = np.arange(3)
-#: R.reshape(9) indices: O[p, 3i + j] = R[a_p, i] · R[b_p, j]
-_OUTER_A = 3 * _PAIRS[:, 0, None] + np.repeat(_I3, 3)[None, :]
-_OUTER_B = 3 * _PAIRS[:, 1, None] + np.tile(_I3, 3)[None, :]
+# R.reshape(9) indices: O[p, 3i + j] = R[a_p, i] · R[b_p, j]
+_OUTER_A = _index(3 * _PAIRS[:, 0, None] + np.repeat(_I3, 3)[None, :])
+_OUTER_B = _index(3 * _PAIRS[:, 1, None] + np.tile(_I3, 3)[None, :])
 _BLOCK = np.arange(16)
-#: k.reshape(144) indices: M[IJ, p] = k[3 I + a_p, 3 J + b_p], I = IJ // 4, J = IJ % 4
-_BLOCK_ENTRIES = (12 * (3 * (_BLOCK[:, None] // 4) + _PAIRS[None, :, 0])
-                  + 3 * (_BLOCK[:, None] % 4) + _PAIRS[None, :, 1])
+# k.reshape(144) indices: M[IJ, p] = k[3 I + a_p, 3 J + b_p], I = IJ // 4, J = IJ % 4
+_BLOCK_ENTRIES = _index(12 * (3 * (_BLOCK[:, None] // 4) + _PAIRS[None, :, 0])
+                        + 3 * (_BLOCK[:, None] % 4) + _PAIRS[None, :, 1])
 _ENTRY = np.arange(144)
 #: Local DOF (0-11) of the row and column of each of the 144 entries of :func:`global_blocks`.
-BLOCK_ROWS = 3 * (_ENTRY // 9 // 4) + _ENTRY % 9 // 3
-BLOCK_COLS = 3 * (_ENTRY // 9 % 4) + _ENTRY % 3
+BLOCK_ROWS = _index(3 * (_ENTRY // 9 // 4) + _ENTRY % 9 // 3)
+BLOCK_COLS = _index(3 * (_ENTRY // 9 % 4) + _ENTRY % 3)
 
 
 def global_blocks(k_local: FloatArray, R: FloatArray) -> FloatArray:
@@ -275,12 +283,6 @@ def global_blocks(k_local: FloatArray, R: FloatArray) -> FloatArray:
     return out
 
 
-def blocks_to_matrix(blocks: FloatArray) -> FloatArray:
-    """(..., 16, 9) blocks of :func:`global_blocks` as (..., 12, 12) matrices."""
-    b = blocks.reshape(*blocks.shape[:-2], 4, 4, 3, 3)
-    return np.swapaxes(b, -3, -2).reshape(*blocks.shape[:-2], 12, 12)
-
-
 # --- static condensation ----------------------------------------------------------------------
 _EYE12 = _frozen(np.eye(12))
 # Which of the four independent blocks each member DOF belongs to: axial, bending x-y,
@@ -289,6 +291,7 @@ _BLOCK_OF = np.array([0, 1, 2, 3, 2, 1, 0, 1, 2, 3, 2, 1])
 # _EARLIER[i, j]: DOF i comes before DOF j in the same block
 _EARLIER = (_BLOCK_OF[:, None] == _BLOCK_OF[None, :]) & np.less.outer(np.arange(12),
                                                                       np.arange(12))
+_EARLIER.flags.writeable = False
 
 
 def elimination_rounds(released: BoolArray) -> tuple[BoolArray, BoolArray]:

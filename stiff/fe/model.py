@@ -62,7 +62,7 @@ def _filled(a: npt.ArrayLike, shape: tuple[int, ...]) -> FloatArray:
 
 def _per_item(a: npt.ArrayLike, n: int, tail: tuple[int, ...] = ()) -> FloatArray:
     """``a`` as a new (..., n, *tail) array: scalars and per-item rows broadcast to n items."""
-    if isinstance(a, np.ndarray) and a.dtype == np.float64 and a.shape == (n, *tail):
+    if type(a) is np.ndarray and a.dtype.type is np.float64 and a.shape == (n, *tail):
         return a.copy()
     v = np.asarray(a, dtype=np.float64)
     lead = v.shape[: v.ndim - len(tail) - 1] if v.ndim > len(tail) else ()
@@ -448,8 +448,9 @@ def _release_sets() -> tuple[tuple[int, ...], ...]:
 
 
 #: Bit masks (bit j is member DOF j) of the release sets that make a member a mechanism.
-_SINGULAR_RELEASES = np.array([sum(1 << j for j in s) for s in _release_sets()], np.int64)
-_BITS = 1 << np.arange(12, dtype=np.int64)
+_SINGULAR_RELEASES = _read_only(
+    np.array([sum(1 << j for j in s) for s in _release_sets()], np.int64))
+_BITS = _read_only(1 << np.arange(12, dtype=np.int64))
 
 
 def _check_releases(b: Beams) -> None:

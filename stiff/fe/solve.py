@@ -1,8 +1,10 @@
 """The analyses: static (first and second order), compliance, linear buckling.
 
-The chain is ``global_stiffness -> reduce -> checked solve (mechanism check) -> recover``,
-each step a function of arrays; a batch of models goes through it in chunks, so memory stays
-bounded however many poses or variants are solved.
+The chain is ``stiffness -> reduce -> checked solve (mechanism check) -> recover``, each step
+a function of arrays. The linear analyses assemble only the columns of the free DOFs (the
+free-free block to solve with and the supports' rows for the reactions); the second-order
+solve works on the full matrix (``assemble_model``). A batch of models goes through the chain
+in chunks, so memory stays bounded however many poses or variants are solved.
 """
 
 from __future__ import annotations
@@ -40,7 +42,7 @@ def _loads_matrix(model: FrameModel, loads: FloatArray) -> FloatArray:
     if loads.ndim < 3 or loads.shape[-2:] != (model.n_nodes, 6):
         raise ModelError(f"loads must have shape (..., cases, {model.n_nodes}, 6), "
                          f"got {loads.shape}")
-    if not np.isfinite(loads).all():
+    if np.count_nonzero(np.isfinite(loads)) != loads.size:
         raise ModelError("loads must be finite numbers")
     return loads.reshape(*loads.shape[:-2], model.n_dofs)
 
