@@ -183,8 +183,44 @@ class TubeMaterial:
         return found
 
 
+class _Isotropic:
+    """Shared by the isotropic records (metals, adhesives): G from E and ν when blank."""
+
+    name: str
+    E_MPa: float
+    G_MPa: float | None
+    poisson_ratio: float
+    density_g_cm3: float
+    origin: str
+
+    @property
+    def shear_modulus_MPa(self) -> float:
+        """Shear modulus [MPa]: the table's, or E / (2 (1 + ν))."""
+        if self.G_MPa is not None:
+            return self.G_MPa
+        return self.E_MPa / (2.0 * (1.0 + self.poisson_ratio))
+
+    @property
+    def density_t_mm3(self) -> float:
+        """Density [t/mm³]."""
+        return g_cm3_to_t_mm3(self.density_g_cm3)
+
+    def provenance_of(self, column: str) -> str:
+        """Where the value of ``column`` comes from."""
+        if column == "G_MPa" and self.G_MPa is None:
+            return f"{self.name}: G_MPa blank in {self.origin or 'table'}: E/(2(1+nu)), isotropic"
+        return _provenance(self, column)  # type: ignore[arg-type]
+
+    def value_of(self, column: str) -> float | str | None:
+        """The value used for ``column``: the table's, or E/(2(1+ν)) for a blank ``G_MPa``."""
+        if column == "G_MPa":
+            return self.shear_modulus_MPa
+        found: float | str | None = getattr(self, column)
+        return found
+
+
 @dataclass(frozen=True)
-class MetalMaterial:
+class MetalMaterial(_Isotropic):
     """An isotropic metal for pins, bolts and inserts; moduli and strengths [MPa].
 
     ``strength_basis`` says whether ``ultimate_MPa``/``yield_MPa`` are specified minimums (bolt
@@ -206,34 +242,9 @@ class MetalMaterial:
 
     kind: Literal["metal"] = "metal"
 
-    @property
-    def shear_modulus_MPa(self) -> float:
-        """Shear modulus [MPa]: the table's, or E / (2 (1 + ν))."""
-        if self.G_MPa is not None:
-            return self.G_MPa
-        return self.E_MPa / (2.0 * (1.0 + self.poisson_ratio))
-
-    @property
-    def density_t_mm3(self) -> float:
-        """Density [t/mm³]."""
-        return g_cm3_to_t_mm3(self.density_g_cm3)
-
-    def provenance_of(self, column: str) -> str:
-        """Where the value of ``column`` comes from."""
-        if column == "G_MPa" and self.G_MPa is None:
-            return f"{self.name}: G_MPa blank in {self.origin or 'table'}: E/(2(1+nu)), isotropic"
-        return _provenance(self, column)
-
-    def value_of(self, column: str) -> float | str | None:
-        """The value used for ``column``: the table's, or E/(2(1+ν)) for a blank ``G_MPa``."""
-        if column == "G_MPa":
-            return self.shear_modulus_MPa
-        found: float | str | None = getattr(self, column)
-        return found
-
 
 @dataclass(frozen=True)
-class AdhesiveMaterial:
+class AdhesiveMaterial(_Isotropic):
     """An adhesive for bonded sockets: moduli and lap-shear strength [MPa].
 
     ``G_MPa`` blank: E / (2 (1 + ν)).
@@ -250,31 +261,6 @@ class AdhesiveMaterial:
     origin: str = ""
 
     kind: Literal["adhesive"] = "adhesive"
-
-    @property
-    def shear_modulus_MPa(self) -> float:
-        """Shear modulus [MPa]: the table's, or E / (2 (1 + ν))."""
-        if self.G_MPa is not None:
-            return self.G_MPa
-        return self.E_MPa / (2.0 * (1.0 + self.poisson_ratio))
-
-    @property
-    def density_t_mm3(self) -> float:
-        """Density [t/mm³]."""
-        return g_cm3_to_t_mm3(self.density_g_cm3)
-
-    def provenance_of(self, column: str) -> str:
-        """Where the value of ``column`` comes from."""
-        if column == "G_MPa" and self.G_MPa is None:
-            return f"{self.name}: G_MPa blank in {self.origin or 'table'}: E/(2(1+nu)), isotropic"
-        return _provenance(self, column)
-
-    def value_of(self, column: str) -> float | str | None:
-        """The value used for ``column``: the table's, or E/(2(1+ν)) for a blank ``G_MPa``."""
-        if column == "G_MPa":
-            return self.shear_modulus_MPa
-        found: float | str | None = getattr(self, column)
-        return found
 
 
 @dataclass(frozen=True)
