@@ -12,10 +12,15 @@ capacity / demand; it is
 from __future__ import annotations
 
 import math
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable
 from dataclasses import dataclass
 from typing import Literal
 
+import numpy as np
+import numpy.typing as npt
+
+FloatArray = npt.NDArray[np.float64]
+BoolArray = npt.NDArray[np.bool_]
 ItemKind = Literal["lug", "segment", "tube", "socket", "pin", "actuator", "spring", "foot"]
 Status = Literal["met", "marginal", "not met"]
 
@@ -75,3 +80,84 @@ def governing(records: Iterable[CheckRecord]) -> dict[str, CheckRecord]:
 def worst_first(records: Iterable[CheckRecord]) -> list[CheckRecord]:
     """Records sorted by utilisation, worst first."""
     return sorted(records, key=lambda r: -r.utilisation)
+
+
+#: Text of one entry of a :class:`CheckRows`: a fixed string, or made from the entry's index
+#: (for text that quotes that entry's load, such as ``P = 123 N``).
+Text = str | Callable[[int], str]
+
+
+def _text(t: Text, i: int) -> str:
+    return t if isinstance(t, str) else t(i)
+
+
+@dataclass(frozen=True)
+class CheckRows:
+    """One check of one item in one load case at B poses (or variants) at once.
+
+    ``demand`` and ``capacity`` are arrays of shape (B,) (capacity may be a scalar, broadcast);
+    ``applies`` marks the entries where the check exists: elsewhere `stiff check` would make no
+    record of it (say, net tension when the pin pushes into the part), and its safety factor is
+    ∞. ``basis`` and ``suggestion`` are strings, or functions of the entry's index when they
+    quote that entry's numbers; they are only made for the records asked for.
+    """
+
+    item: str
+    kind: ItemKind
+    mode: str
+    load_case: str
+    demand: FloatArray
+    capacity: FloatArray | float
+    unit: str
+    required_factor: float
+    basis: Text
+    suggestion: Text = ""
+    applies: BoolArray | None = None
+
+    @property
+    def size(self) -> int:
+        """B, the entries."""
+        return int(np.shape(self.demand)[0])
+
+    @property
+    def mask(self) -> BoolArray:
+        """(B,) True where the check exists."""
+        if self.applies is None:
+            return np.ones(self.size, bool)
+        return np.asarray(self.applies, bool)
+
+    @property
+    def safety_factors(self) -> FloatArray:
+        """(B,) capacity / demand, ∞ where there is no demand or the check does not apply."""
+        demand = np.asarray(self.demand, np.float64)
+        capacity = np.broadcast_to(np.asarray(self.capacity, np.float64), demand.shape)
+        live = (demand > 0.0) & self.mask
+        out = np.full(demand.shape, np.inf)
+        np.divide(capacity, demand, out=out, where=live)
+        return out
+
+    @property
+    def utilisations(self) -> FloatArray:
+        """(B,) required factor over safety factor (0 where the factor is ∞)."""
+        sf = self.safety_factors
+        out = np.zeros(sf.shape)
+        np.divide(self.required_factor, sf, out=out, where=np.isfinite(sf))
+        return out
+
+    def record(self, i: int) -> CheckRecord:
+        """Entry i as a :class:`CheckRecord`."""
+        capacity = np.broadcast_to(np.asarray(self.capacity, np.float64), (self.size,))
+        return CheckRecord(
+            item=self.item, kind=self.kind, mode=self.mode, load_case=self.load_case,
+            demand=float(self.demand[i]), capacity=float(capacity[i]), unit=self.unit,
+            required_factor=self.required_factor, basis=_text(self.basis, i),
+            suggestion=_text(self.suggestion, i))
+
+    def records(self) -> list[CheckRecord]:
+        """A record of every entry where the check applies, in entry order."""
+        return [self.record(int(i)) for i in np.flatnonzero(self.mask)]
+
+
+def expand(rows: Iterable[CheckRows]) -> list[CheckRecord]:
+    """Every record of every row set, in order (B = 1: one record per applying check)."""
+    return [r for row in rows for r in row.records()]
