@@ -31,22 +31,31 @@ Defaults (common practice): bondline 0.1 mm where the case gives none
 (:data:`DEFAULT_BONDLINE_MM`), friction 0.2 (:data:`DEFAULT_FRICTION`, low end of dry polymer
 on carbon/epoxy). A clamped socket without ``clamp_force_N`` gets no friction check, and a
 warning.
+
+Every check runs over a load set's B poses at once (``stiff.checks.base.CheckRows``): what does
+not depend on the load (the sites, the shear-lag factors, the strengths and their knock-down
+chains) is worked out once per socket and load case; a check whose demand is zero in a pose has
+no record there (its ``applies`` mask).
 """
 
 from __future__ import annotations
 
-import math
+from collections.abc import Callable
 from dataclasses import dataclass
+
+import numpy as np
+import numpy.typing as npt
 
 from stiff.case_model import Joint, Part, Socket
 from stiff.checks.allowables import printed_allowable
-from stiff.checks.base import CheckRecord
-from stiff.checks.context import CheckContext, MemberForces, member_forces
+from stiff.checks.base import CheckRows
+from stiff.checks.context import CheckContext, LoadSet, member_lengths
 from stiff.checks.tubes import modulus, tube_material
-from stiff.loads import LoadCaseResult
 from stiff.materials import AdhesiveMaterial, TubeMaterial
 from stiff.printed_sections import PrintedSection
 from stiff.strength import across_layers_strength, member_strength
+
+FloatArray = npt.NDArray[np.float64]
 
 #: Bondline thickness where the case gives none [mm] (common practice for a bonded tube joint:
 #: 0.05-0.2 mm; a thin line gives the higher peak).
@@ -60,21 +69,31 @@ MIN_WALL_MM = 1.0
 
 
 # ---------------------------------------------------------------------------------------------
-# Formulas
+# Formulas (floats or arrays, element by element)
 
 
-def average_bond_shear(force_N: float, diameter_mm: float, length_mm: float) -> float:
+def _array(a: npt.ArrayLike) -> FloatArray:
+    return np.asarray(a, np.float64)
+
+
+def average_bond_shear(force_N: npt.ArrayLike, diameter_mm: npt.ArrayLike,
+                       length_mm: npt.ArrayLike) -> FloatArray:
     """Average shear τ = F/(π d L) [MPa] on a bond of diameter d and length L [mm], F [N]."""
-    return abs(force_N) / (math.pi * diameter_mm * length_mm)
+    out: FloatArray = np.abs(_array(force_N)) / (np.pi * _array(diameter_mm) * _array(length_mm))
+    return out
 
 
-def torsion_bond_shear(torque_Nmm: float, diameter_mm: float, length_mm: float) -> float:
+def torsion_bond_shear(torque_Nmm: npt.ArrayLike, diameter_mm: npt.ArrayLike,
+                       length_mm: npt.ArrayLike) -> FloatArray:
     """Average shear τ = 2T/(π d² L) [MPa] of a torque T [N·mm] on a bond (d, L [mm])."""
-    return 2.0 * abs(torque_Nmm) / (math.pi * diameter_mm**2 * length_mm)
+    d = _array(diameter_mm)
+    out: FloatArray = 2.0 * np.abs(_array(torque_Nmm)) / (np.pi * d**2 * _array(length_mm))
+    return out
 
 
-def volkersen_omega(G_a_MPa: float, bondline_mm: float, stiffness_1_N_per_mm: float,
-                    stiffness_2_N_per_mm: float) -> float:
+def volkersen_omega(G_a_MPa: npt.ArrayLike, bondline_mm: npt.ArrayLike,
+                    stiffness_1_N_per_mm: npt.ArrayLike, stiffness_2_N_per_mm: npt.ArrayLike
+                    ) -> FloatArray:
     """Shear-lag parameter ω = √((G_a/η)(1/(E₁t₁) + 1/(E₂t₂))) [1/mm].
 
     Parameters
@@ -87,12 +106,16 @@ def volkersen_omega(G_a_MPa: float, bondline_mm: float, stiffness_1_N_per_mm: fl
         Membrane stiffness E t of each adherend, per unit width of the bond [N/mm] (G t for
         torsion).
     """
-    return math.sqrt(G_a_MPa / bondline_mm
-                     * (1.0 / stiffness_1_N_per_mm + 1.0 / stiffness_2_N_per_mm))
+    out: FloatArray = np.sqrt(_array(G_a_MPa) / _array(bondline_mm)
+                              * (1.0 / _array(stiffness_1_N_per_mm)
+                                 + 1.0 / _array(stiffness_2_N_per_mm)))
+    return out
 
 
-def volkersen_peak_factor(G_a_MPa: float, bondline_mm: float, stiffness_1_N_per_mm: float,
-                          stiffness_2_N_per_mm: float, overlap_mm: float) -> float:
+def volkersen_peak_factor(G_a_MPa: npt.ArrayLike, bondline_mm: npt.ArrayLike,
+                          stiffness_1_N_per_mm: npt.ArrayLike,
+                          stiffness_2_N_per_mm: npt.ArrayLike, overlap_mm: npt.ArrayLike
+                          ) -> FloatArray:
     """Peak over average bond shear of a lap joint by Volkersen's shear lag.
 
     τ_max/τ_avg = (ωL/2)[coth(ωL/2) + ((ψ − 1)/(ψ + 1)) tanh(ωL/2)], ψ = E₁t₁/(E₂t₂) ≥ 1
@@ -108,16 +131,16 @@ def volkersen_peak_factor(G_a_MPa: float, bondline_mm: float, stiffness_1_N_per_
     overlap_mm
         Overlap (engagement) length L [mm].
     """
-    half = volkersen_omega(G_a_MPa, bondline_mm, stiffness_1_N_per_mm,
-                           stiffness_2_N_per_mm) * overlap_mm / 2.0
-    psi = max(stiffness_1_N_per_mm, stiffness_2_N_per_mm) / min(stiffness_1_N_per_mm,
-                                                                 stiffness_2_N_per_mm)
-    t = math.tanh(half)
-    return half * (1.0 / t + (psi - 1.0) / (psi + 1.0) * t)
+    k1, k2 = _array(stiffness_1_N_per_mm), _array(stiffness_2_N_per_mm)
+    half = volkersen_omega(G_a_MPa, bondline_mm, k1, k2) * _array(overlap_mm) / 2.0
+    psi = np.maximum(k1, k2) / np.minimum(k1, k2)
+    t = np.tanh(half)
+    out: FloatArray = half * (1.0 / t + (psi - 1.0) / (psi + 1.0) * t)
+    return out
 
 
-def pry_bearing_pressure(shear_N: float, moment_Nmm: float, diameter_mm: float,
-                         length_mm: float) -> float:
+def pry_bearing_pressure(shear_N: npt.ArrayLike, moment_Nmm: npt.ArrayLike,
+                         diameter_mm: npt.ArrayLike, length_mm: npt.ArrayLike) -> FloatArray:
     """Peak bearing pressure p_max = 4V/(dL) + 6M₀/(dL²) [MPa] of a rigid insert prying.
 
     A rigid insert of diameter d engaged over L [mm], loaded at the mouth by a shear V [N] and a
@@ -127,8 +150,10 @@ def pry_bearing_pressure(shear_N: float, moment_Nmm: float, diameter_mm: float,
     q(L) = −2V/L − 6M₀/L² (REFERENCES.md §4, practice, derived). Magnitudes are added: the
     worse sense.
     """
-    d, L = diameter_mm, length_mm
-    return 4.0 * abs(shear_N) / (d * L) + 6.0 * abs(moment_Nmm) / (d * L**2)
+    d, L = _array(diameter_mm), _array(length_mm)
+    out: FloatArray = (4.0 * np.abs(_array(shear_N)) / (d * L)
+                       + 6.0 * np.abs(_array(moment_Nmm)) / (d * L**2))
+    return out
 
 
 def socket_wall_mm(width_mm: float, depth_mm: float, tube_od_mm: float) -> float:
@@ -143,27 +168,32 @@ def socket_wall_mm(width_mm: float, depth_mm: float, tube_od_mm: float) -> float
 
 @dataclass(frozen=True)
 class SocketSite:
-    """A socket with what its checks need: the tube, the printed part's section there."""
+    """A socket with what its checks need: the tube, the printed part's section there, and the
+    tube members' ends at the socket's node."""
 
     joint: Joint
     socket: Socket
     tube: Part
     printed: PrintedSection
     printed_member: int  # model index of the printed member at the socket's node
-    printed_length_mm: float  # that member's length, to its next node
+    tube_ends: tuple[tuple[int, int], ...]  # (model member, end 0 or 1) of the tube at the node
+
+    @property
+    def od_mm(self) -> float:
+        """The tube's outer diameter [mm]."""
+        assert self.tube.od_mm is not None
+        return self.tube.od_mm
 
     @property
     def wall_mm(self) -> float:
         """Thinnest printed wall round the bore [mm] (may be ≤ 0)."""
-        assert self.tube.od_mm is not None
-        return socket_wall_mm(self.printed.width_mm, self.printed.depth_mm, self.tube.od_mm)
+        return socket_wall_mm(self.printed.width_mm, self.printed.depth_mm, self.od_mm)
 
     @property
     def ring_mm(self) -> float:
         """Equivalent wall of the socket round the bore, (A_outline − πD²/4)/(πD) [mm]."""
-        assert self.tube.od_mm is not None
-        D = self.tube.od_mm
-        return (self.printed.outline_area_mm2 - math.pi * D**2 / 4.0) / (math.pi * D)
+        D = self.od_mm
+        return float((self.printed.outline_area_mm2 - np.pi * D**2 / 4.0) / (np.pi * D))
 
     @property
     def name(self) -> str:
@@ -171,11 +201,16 @@ class SocketSite:
         return f"socket {self.joint.name}"
 
 
+def _tube_ends(ctx: CheckContext, tube: str, node: str) -> tuple[tuple[int, int], ...]:
+    """(member, end) of every member of ``tube`` that ends at ``node``, in model order."""
+    return tuple((i, seg.index(node)) for i, (part, seg)
+                 in enumerate(zip(ctx.built.beam_part, ctx.built.beam_segment, strict=True))
+                 if part == tube and node in seg)
+
+
 def sites(ctx: CheckContext) -> list[SocketSite]:
     """Every fixed joint with a socket, with its printed section."""
     out = []
-    xyz = ctx.built.model.xyz
-    nodes = ctx.built.model.beams.nodes
     for joint in ctx.case.joints:
         s = joint.socket
         if joint.kind != "fixed" or s is None:
@@ -187,53 +222,49 @@ def sites(ctx: CheckContext) -> list[SocketSite]:
         i = found[0]
         ps = ctx.built.beam_printed[i]
         assert ps is not None
-        length = float(((xyz[nodes[i, 1]] - xyz[nodes[i, 0]]) ** 2).sum() ** 0.5)
-        out.append(SocketSite(joint, s, ctx.case.part(s.tube), ps, i, length))
+        out.append(SocketSite(joint, s, ctx.case.part(s.tube), ps, i,
+                              _tube_ends(ctx, s.tube, joint.node)))
     return out
 
 
 @dataclass(frozen=True)
 class SocketForces:
-    """The tube's forces at the socket's mouth: magnitudes [N], [N·mm], local tube axes.
+    """The tube's forces at the socket's mouth at B poses: magnitudes [N], [N·mm], (B,) each,
+    local tube axes.
 
     ``shear_y_N`` and ``moment_z_Nmm`` act in the linkage plane, ``shear_z_N`` and
     ``moment_y_Nmm`` out of it.
     """
 
-    axial_N: float
-    shear_y_N: float
-    shear_z_N: float
-    moment_y_Nmm: float
-    moment_z_Nmm: float
-    torque_Nmm: float
+    axial_N: FloatArray
+    shear_y_N: FloatArray
+    shear_z_N: FloatArray
+    moment_y_Nmm: FloatArray
+    moment_z_Nmm: FloatArray
+    torque_Nmm: FloatArray
 
 
-def socket_forces(site: SocketSite, forces: list[MemberForces]) -> SocketForces | None:
-    """The tube members' end forces at the socket's node (the largest of each, if several)."""
-    node = site.joint.node
-    ends = [(m, m.segment.index(node)) for m in forces
-            if m.part.name == site.tube.name and node in m.segment]
-    if not ends:
+#: Columns of a member's end forces (``LoadSet.beam_forces``, 6 at end 1 then 6 at end 2) that
+#: the socket reads, as ``stiff.checks.context.MemberForces`` reads them: the axial force and
+#: the torque at end 2 for the whole member, shears and moments at the socket's end (+6 at end
+#: 2). Order: axial, shear y, shear z, moment y, moment z, torque.
+_COLUMNS = np.array([6, 1, 2, 4, 5, 9])
+_AT_END = np.array([0, 1, 1, 1, 1, 0])
+
+
+def socket_forces(site: SocketSite, loads: LoadSet) -> SocketForces | None:
+    """The tube members' end forces at the socket's node in every pose of a load set (the
+    largest of each, if several members end there); None without a tube member there."""
+    if not site.tube_ends:
         return None
-    return SocketForces(
-        axial_N=max(abs(m.axial_N) for m, _ in ends),
-        shear_y_N=max(abs(m.shear_y_N[e]) for m, e in ends),
-        shear_z_N=max(abs(m.shear_z_N[e]) for m, e in ends),
-        moment_y_Nmm=max(abs(m.moment_y_Nmm[e]) for m, e in ends),
-        moment_z_Nmm=max(abs(m.moment_z_Nmm[e]) for m, e in ends),
-        torque_Nmm=max(abs(m.torque_Nmm) for m, _ in ends))
+    members, ends = np.array(site.tube_ends).T
+    columns = _COLUMNS[None, :] + 6 * _AT_END[None, :] * ends[:, None]  # (n_ends, 6)
+    f = np.abs(loads.beam_forces[:, members[:, None], columns]).max(axis=1)  # (B, 6)
+    return SocketForces(*(f[:, k] for k in range(6)))
 
 
 # ---------------------------------------------------------------------------------------------
 # Checks
-
-
-def _record(ctx: CheckContext, site: SocketSite, result: LoadCaseResult, mode: str,
-            demand: float, capacity: float, unit: str, factor: float, basis: str,
-            suggestion: str) -> CheckRecord:
-    return CheckRecord(item=site.name, kind="socket", mode=mode, load_case=result.name,
-                       demand=demand, capacity=capacity, unit=unit, required_factor=factor,
-                       basis=basis, suggestion=suggestion)
 
 
 @dataclass(frozen=True)
@@ -249,9 +280,9 @@ class BondLag:
 def bond_lag(ctx: CheckContext, site: SocketSite, adhesive: AdhesiveMaterial) -> BondLag:
     """Volkersen peak factors of a bonded socket, axial and in torsion, and their basis."""
     tube, s, ps = site.tube, site.socket, site.printed
-    assert tube.od_mm is not None and tube.id_mm is not None
+    assert tube.id_mm is not None
     material = tube_material(ctx.case, tube)
-    D = tube.od_mm
+    D = site.od_mm
     t1 = (D**2 - tube.id_mm**2) / (4.0 * D)
     E1 = modulus(material)
     G1 = material.G_MPa if isinstance(material, TubeMaterial) else material.shear_modulus_MPa
@@ -261,9 +292,9 @@ def bond_lag(ctx: CheckContext, site: SocketSite, adhesive: AdhesiveMaterial) ->
     eta = s.bondline_mm if s.bondline_mm is not None else DEFAULT_BONDLINE_MM
     Ga = adhesive.shear_modulus_MPa
     L = s.engagement_mm
-    k_axial = volkersen_peak_factor(Ga, eta, E1 * t1, E2 * t2, L)
-    k_torsion = volkersen_peak_factor(Ga, eta, G1 * t1, G2 * t2, L)
-    omega = volkersen_omega(Ga, eta, E1 * t1, E2 * t2)
+    k_axial = float(volkersen_peak_factor(Ga, eta, E1 * t1, E2 * t2, L))
+    k_torsion = float(volkersen_peak_factor(Ga, eta, G1 * t1, G2 * t2, L))
+    omega = float(volkersen_omega(Ga, eta, E1 * t1, E2 * t2))
     bondline = (f"η = {eta:g} mm" if s.bondline_mm is not None
                 else f"η = {eta:g} mm (default, common practice)")
     text = (f"Volkersen shear lag (Luftfahrtforschung 15, 1938; formula from memory, checked "
@@ -276,111 +307,147 @@ def bond_lag(ctx: CheckContext, site: SocketSite, adhesive: AdhesiveMaterial) ->
     return BondLag(k_axial, k_torsion, omega, text)
 
 
-def _bonded(ctx: CheckContext, site: SocketSite, result: LoadCaseResult, f: SocketForces
-            ) -> list[CheckRecord]:
-    s, tube = site.socket, site.tube
-    assert s.adhesive is not None and tube.od_mm is not None
-    adhesive = ctx.case.library.adhesive(s.adhesive)
-    d, L = tube.od_mm, s.engagement_mm
+def _rows(site: SocketSite, loads: LoadSet, mode: str, demand: FloatArray,
+          capacity: float, unit: str, factor: float, basis: str | Callable[[int], str],
+          suggestion: str) -> CheckRows:
+    """A socket's check in one load set; it applies where the demand is above zero."""
+    return CheckRows(item=site.name, kind="socket", mode=mode, load_case=loads.name,
+                     demand=demand, capacity=capacity, unit=unit, required_factor=factor,
+                     basis=basis, suggestion=suggestion, applies=demand > 0.0)
+
+
+def _average_text(f: SocketForces, d: float, L: float) -> Callable[[int], str]:
+    """The average bond shear's formula with entry i's axial force and torque."""
+    def text(i: int) -> str:
+        return (f"τ = hypot(F/(πdL), 2T/(πd²L)), F = {f.axial_N[i]:.4g} N, "
+                f"T = {f.torque_Nmm[i]:.4g} N·mm, d = {d:g} mm, L = {L:g} mm")
+    return text
+
+
+def _adhesive(ctx: CheckContext, site: SocketSite) -> AdhesiveMaterial:
+    """The adhesive of a bonded socket."""
+    assert site.socket.adhesive is not None
+    return ctx.case.library.adhesive(site.socket.adhesive)
+
+
+def _bonded(ctx: CheckContext, site: SocketSite, lag: BondLag, loads: LoadSet,
+            f: SocketForces) -> list[CheckRows]:
+    s = site.socket
+    adhesive = _adhesive(ctx, site)
+    d, L = site.od_mm, s.engagement_mm
     tau_axial = average_bond_shear(f.axial_N, d, L)
     tau_torsion = torsion_bond_shear(f.torque_Nmm, d, L)
-    tau_avg = math.hypot(tau_axial, tau_torsion)
-    if tau_avg <= 0.0:
-        return []
-    lag = bond_lag(ctx, site, adhesive)
-    tau_peak = math.hypot(lag.axial_factor * tau_axial, lag.torsion_factor * tau_torsion)
+    tau_avg = np.hypot(tau_axial, tau_torsion)
+    # the peak factors are ≥ 1: the peak is zero exactly where the average is
+    tau_peak = np.hypot(lag.axial_factor * tau_axial, lag.torsion_factor * tau_torsion)
     strength = adhesive.lap_shear_MPa
-    average = (f"τ = hypot(F/(πdL), 2T/(πd²L)), F = {f.axial_N:.4g} N, T = {f.torque_Nmm:.4g} "
-               f"N·mm, d = {d:g} mm, L = {L:g} mm")
+    average = _average_text(f, d, L)
     capacity = (f"lap_shear_MPa = {strength:g} MPa: {adhesive.provenance_of('lap_shear_MPa')}; "
                 "the table's value as it stands (typical, no B-basis or knock-downs: no "
                 "scatter or environment data for adhesives)")
+    peak_tail = (f"; {lag.text}; {capacity} (conservative: a lap-shear strength is itself an "
+                 "average at failure)")
     factor = ctx.required("adhesive")
     effective = 3.0 / lag.omega_per_mm
     lag_hint = (f"a thicker bondline or a stiffer, thicker socket wall lowers the peak; "
                 f"engagement beyond about 3/ω = {effective:.3g} mm adds little")
     ps = site.printed
     wall_mean = across_layers_strength(ps.material, shear=True)
-    wall = printed_allowable(wall_mean, ps.material, True, ctx.duty(result.name), ctx.samples)
+    wall = printed_allowable(wall_mean, ps.material, True, ctx.duty(loads.name), ctx.samples)
+    wall_basis = (f"the bond's peak shear ({lag.text}) on the printed bore, which meets the "
+                  f"layer planes; {wall.provenance}")
     return [
-        _record(ctx, site, result, "adhesive shear, average", tau_avg, strength, "MPa", factor,
-                f"{average}; {capacity}", "a longer engagement or a larger tube"),
-        _record(ctx, site, result, "adhesive shear, Volkersen peak", tau_peak, strength, "MPa",
-                factor, f"{average}; {lag.text}; {capacity} (conservative: a lap-shear "
-                "strength is itself an average at failure)", lag_hint),
-        _record(ctx, site, result, "printed wall shear at the bond (across the layers)",
-                tau_peak, wall.value_MPa, "MPa", ctx.required("across_layers"),
-                f"the bond's peak shear ({lag.text}) on the printed bore, which meets the layer "
-                f"planes; {wall.provenance}", lag_hint),
+        _rows(site, loads, "adhesive shear, average", tau_avg, strength, "MPa", factor,
+              lambda i: f"{average(i)}; {capacity}", "a longer engagement or a larger tube"),
+        _rows(site, loads, "adhesive shear, Volkersen peak", tau_peak, strength, "MPa", factor,
+              lambda i: average(i) + peak_tail, lag_hint),
+        _rows(site, loads, "printed wall shear at the bond (across the layers)", tau_peak,
+              wall.value_MPa, "MPa", ctx.required("across_layers"), wall_basis, lag_hint),
     ]
 
 
-def _clamped(ctx: CheckContext, site: SocketSite, result: LoadCaseResult, f: SocketForces
-             ) -> list[CheckRecord]:
-    s, tube = site.socket, site.tube
-    assert tube.od_mm is not None
+def _clamped(ctx: CheckContext, site: SocketSite, loads: LoadSet, f: SocketForces
+             ) -> list[CheckRows]:
+    s = site.socket
     if s.clamp_force_N is None:
         return []
+    d = site.od_mm
     mu = s.friction if s.friction is not None else DEFAULT_FRICTION
-    slip = math.hypot(f.axial_N, 2.0 * f.torque_Nmm / tube.od_mm)
-    if slip <= 0.0:
-        return []
+    slip = np.hypot(f.axial_N, 2.0 * f.torque_Nmm / d)
     friction = (f"μ = {mu:g} (case)" if s.friction is not None
                 else f"μ = {mu:g} (default: common practice, low end of 0.2-0.4 for dry polymer "
                      "on carbon/epoxy)")
-    basis = (f"slip force hypot(N, 2T/d), N = {f.axial_N:.4g} N, T = {f.torque_Nmm:.4g} N·mm, "
-             f"d = {tube.od_mm:g} mm, against μ N_clamp, N_clamp = {s.clamp_force_N:g} N "
-             f"(case, taken as the total normal force on the tube), {friction}; required "
-             "factor of the socket's fixing (the adhesive's)")
-    return [_record(ctx, site, result, "clamp slip (friction)", slip, mu * s.clamp_force_N,
-                    "N", ctx.required("adhesive"), basis,
-                    "a higher clamp force or a longer clamp, or bond the tube")]
+    tail = (f"d = {d:g} mm, against μ N_clamp, N_clamp = {s.clamp_force_N:g} N (case, taken as "
+            f"the total normal force on the tube), {friction}; required factor of the socket's "
+            "fixing (the adhesive's)")
+
+    def basis(i: int) -> str:
+        return (f"slip force hypot(N, 2T/d), N = {f.axial_N[i]:.4g} N, "
+                f"T = {f.torque_Nmm[i]:.4g} N·mm, {tail}")
+
+    return [_rows(site, loads, "clamp slip (friction)", slip, mu * s.clamp_force_N, "N",
+                  ctx.required("adhesive"), basis,
+                  "a higher clamp force or a longer clamp, or bond the tube")]
 
 
-def _pry(ctx: CheckContext, site: SocketSite, result: LoadCaseResult, f: SocketForces
-         ) -> list[CheckRecord]:
-    tube, ps = site.tube, site.printed
-    assert tube.od_mm is not None
-    d, L = tube.od_mm, site.socket.engagement_mm
+def _pry_text(V: FloatArray, M: FloatArray, tail: str) -> Callable[[int], str]:
+    """The pry pressure's formula with entry i's shear and moment at the mouth."""
+    def text(i: int) -> str:
+        return (f"p = 4V/(dL) + 6M/(dL²), rigid insert, linear bearing pressure (REFERENCES.md "
+                f"§4, practice, derived), V = {V[i]:.4g} N, M = {M[i]:.4g} N·mm at the mouth, "
+                f"{tail}")
+    return text
+
+
+def _pry(ctx: CheckContext, site: SocketSite, loads: LoadSet, f: SocketForces
+         ) -> list[CheckRows]:
+    ps = site.printed
+    d, L = site.od_mm, site.socket.engagement_mm
     build = ps.settings.build
     mean = member_strength(ps.material, build, "compression")
     out = []
     planes = (("in the linkage plane", f.shear_y_N, f.moment_z_Nmm, build == "on_edge"),
               ("out of the plane", f.shear_z_N, f.moment_y_Nmm, build == "flat"))
     for where, V, M, across in planes:
-        p = pry_bearing_pressure(V, M, d, L)
-        if p <= 0.0:
-            continue
-        allowable = printed_allowable(mean, ps.material, across, ctx.duty(result.name),
+        allowable = printed_allowable(mean, ps.material, across, ctx.duty(loads.name),
                                       ctx.samples)
         layers = " (across the layers)" if across else ""
-        basis = (f"p = 4V/(dL) + 6M/(dL²), rigid insert, linear bearing pressure (REFERENCES.md "
-                 f"§4, practice, derived), V = {V:.4g} N, M = {M:.4g} N·mm at the mouth, "
-                 f"d = {d:g} mm, L = {L:g} mm; {site.socket.printed} printed {build}, "
-                 f"compressive strength as the bearing strength; {allowable.provenance}")
-        out.append(_record(
-            ctx, site, result, f"pry bearing on the socket wall, {where}{layers}", p,
-            allowable.value_MPa, "MPa", ctx.required("across_layers" if across else "in_layer"),
-            basis, "a longer engagement (the moment's share falls as 1/L²) or a larger tube"))
+        tail = (f"d = {d:g} mm, L = {L:g} mm; {site.socket.printed} printed {build}, "
+                f"compressive strength as the bearing strength; {allowable.provenance}")
+        out.append(_rows(
+            site, loads, f"pry bearing on the socket wall, {where}{layers}",
+            pry_bearing_pressure(V, M, d, L), allowable.value_MPa, "MPa",
+            ctx.required("across_layers" if across else "in_layer"), _pry_text(V, M, tail),
+            "a longer engagement (the moment's share falls as 1/L²) or a larger tube"))
     return out
 
 
-def checks(ctx: CheckContext) -> list[CheckRecord]:
-    """Every socket in every load case: bond or clamp, and the pry on the printed wall."""
-    out: list[CheckRecord] = []
-    found = sites(ctx)
-    for result in ctx.results:
-        forces = member_forces(ctx, result)
+def checks(ctx: CheckContext) -> list[CheckRows]:
+    """Every socket in every load set: bond or clamp, and the pry on the printed wall."""
+    found = [s for s in sites(ctx) if s.tube_ends and s.wall_mm > 0.0]
+    lags = {s.name: bond_lag(ctx, s, _adhesive(ctx, s))
+            for s in found if s.socket.fixing == "bonded"}
+    out: list[CheckRows] = []
+    for loads in ctx.loads:
         for site in found:
-            f = socket_forces(site, forces)
-            if f is None or site.wall_mm <= 0.0:
-                continue
+            f = socket_forces(site, loads)
+            assert f is not None
             if site.socket.fixing == "bonded":
-                out += _bonded(ctx, site, result, f)
+                out += _bonded(ctx, site, lags[site.name], loads, f)
             else:
-                out += _clamped(ctx, site, result, f)
-            out += _pry(ctx, site, result, f)
+                out += _clamped(ctx, site, loads, f)
+            out += _pry(ctx, site, loads, f)
     return out
+
+
+def _printed_length_mm(ctx: CheckContext, site: SocketSite) -> float:
+    """Length of the printed member at the socket, node to next node, in the first pose of the
+    first load set (the built model's when there is none) [mm]."""
+    if ctx.loads:
+        return float(member_lengths(ctx, ctx.loads[0])[0, site.printed_member])
+    xyz = ctx.built.model.xyz
+    a, b = ctx.built.model.beams.nodes[site.printed_member]
+    return float(np.linalg.norm(xyz[b] - xyz[a]))
 
 
 def warnings(ctx: CheckContext) -> list[str]:
@@ -388,24 +455,25 @@ def warnings(ctx: CheckContext) -> list[str]:
     out = []
     for site in sites(ctx):
         s, tube = site.socket, site.tube
-        assert tube.od_mm is not None
+        od = site.od_mm
         where = f"joint {site.joint.name}"
-        if s.engagement_mm < tube.od_mm:
+        if s.engagement_mm < od:
             out.append(f"{where}: the socket holds {tube.name} over {s.engagement_mm:g} mm, less "
-                       f"than the tube's diameter {tube.od_mm:g} mm: it pries out easily (the "
+                       f"than the tube's diameter {od:g} mm: it pries out easily (the "
                        "pressure grows as 1/L²); engage it at least one diameter")
         size = (f"{s.printed}'s section ({site.printed.width_mm:g} × "
                 f"{site.printed.depth_mm:g} mm)")
         if site.wall_mm <= 0.0:
-            out.append(f"{where}: {size} leaves no wall round the {tube.od_mm:g} mm tube (it "
+            out.append(f"{where}: {size} leaves no wall round the {od:g} mm tube (it "
                        "does not fit): the socket is not checked; widen it")
         elif site.wall_mm < MIN_WALL_MM:
             out.append(f"{where}: {size} leaves a wall of {max(site.wall_mm, 0.0):.3g} mm at "
-                       f"its thinnest round the {tube.od_mm:g} mm tube, under {MIN_WALL_MM:g} mm: "
+                       f"its thinnest round the {od:g} mm tube, under {MIN_WALL_MM:g} mm: "
                        "widen the socket")
-        if s.engagement_mm > site.printed_length_mm:
+        length = _printed_length_mm(ctx, site)
+        if s.engagement_mm > length:
             out.append(f"{where}: the socket is {s.engagement_mm:g} mm deep, but {s.printed} "
-                       f"reaches only {site.printed_length_mm:.3g} mm from the socket's mouth "
+                       f"reaches only {length:.3g} mm from the socket's mouth "
                        "(its node) to its next node: the bore runs into the next joint")
         if s.fixing == "clamped" and s.clamp_force_N is None:
             out.append(f"{where}: a clamped socket without clamp_force_N: its friction is not "
