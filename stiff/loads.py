@@ -22,7 +22,9 @@ Defaults and their provenance (used when the case does not say):
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, replace
+from typing import TypeVar
 
 import numpy as np
 
@@ -33,6 +35,8 @@ from stiff.fe import FrameModel, Solution, compliance, node_dofs, preload_loads,
 from stiff.kinematics import Pose
 from stiff.landing import ForceCurve, LandingResult, Stage, simulate_landing
 from stiff.units import G_MM_PER_S2
+
+F = TypeVar("F", float, np.ndarray)
 
 DEFAULT_FRICTION = 0.5
 DEFAULT_LATERAL_FRACTION = 0.2
@@ -148,6 +152,25 @@ def _torque_rates(model: FrameModel, built: Built, direction: float) -> dict[str
     return {a: float(sol.connector_forces[0, i, 5]) for i, a in _driven(built)}
 
 
+#: The leg's response with some actuators yielding: its vertical compliance [mm/N] and each
+#: actuator's torque per newton of foot force [N·mm/N]; None when it is then a mechanism.
+Response = tuple[float, dict[str, float]] | None
+
+
+def yielded_response(built: Built, direction: float, yielded: frozenset[str]) -> Response:
+    """The model's response with the ``yielded`` actuators' holding stiffness taken out (with
+    none yielded a mechanism raises: the leg cannot stand)."""
+    if not yielded:
+        return (_vertical_compliance(built.model, built.foot),
+                _torque_rates(built.model, built, direction))
+    model = _freed(built, set(yielded))
+    try:
+        return (_vertical_compliance(model, built.foot),
+                _torque_rates(model, built, direction))
+    except MechanismError:
+        return None
+
+
 def landing_curve(case: Case, built: Built, pose: Pose, jacobian: np.ndarray,
                   pad_N_per_mm: float | None, direction: float = 1.0) -> ForceCurve:
     """The leg's vertical force-stroke curve: elastic, then actuators yielding one by one.
@@ -157,15 +180,27 @@ def landing_curve(case: Case, built: Built, pose: Pose, jacobian: np.ndarray,
     d(foot x, y)/d(actuator angles) [mm/rad] at the pose, used for how far a yielding joint
     turns per millimetre of stroke (to find where it reaches its limit).
     """
+    return curve_from_responses(
+        case, pose, jacobian, pad_N_per_mm, direction,
+        lambda yielded: yielded_response(built, direction, yielded))
+
+
+def curve_from_responses(case: Case, pose: Pose, jacobian: np.ndarray,
+                         pad_N_per_mm: float | None, direction: float,
+                         response: Callable[[frozenset[str]], Response]) -> ForceCurve:
+    """:func:`landing_curve` from the leg's response with each set of actuators yielded
+    (``response``, see :data:`Response`; the set of none must not be a mechanism)."""
     pad = 0.0 if pad_N_per_mm is None else 1.0 / pad_N_per_mm
-    k0 = 1.0 / (_vertical_compliance(built.model, built.foot) + pad)
+    first = response(frozenset())
+    if first is None:
+        raise MechanismError("the leg is a mechanism before any actuator yields")
+    compliance0, rates = first
+    k0 = 1.0 / (compliance0 + pad)
     stages = [Stage(0.0, 0.0, k0, "elastic")]
     names = [a.name for a in case.actuators]
     yielded: set[str] = set()
     force, stroke = 0.0, 0.0
     torque = {a: 0.0 for a in names}
-    model = built.model
-    rates = _torque_rates(model, built, direction)
     while len(yielded) < len(names):
         slope = stages[-1].slope_N_per_mm
         best: tuple[float, str] | None = None
@@ -186,12 +221,8 @@ def landing_curve(case: Case, built: Built, pose: Pose, jacobian: np.ndarray,
         force += extra
         stroke += extra / slope
         yielded.add(a)
-        model = _freed(built, yielded)
-        try:
-            slope_next = 1.0 / (_vertical_compliance(model, built.foot) + pad)
-            rates = _torque_rates(model, built, direction)
-        except MechanismError:
-            slope_next, rates = 0.0, {}
+        after = response(frozenset(yielded))
+        slope_next, rates = (0.0, {}) if after is None else (1.0 / (after[0] + pad), after[1])
         stages.append(Stage(stroke, force, slope_next, f"{a} reaches its stall torque"))
         limit = _stroke_to_limit(case, a, pose, jacobian, direction)
         if limit is not None and slope_next < k0:
@@ -217,22 +248,52 @@ def _stroke_to_limit(case: Case, actuator: str, pose: Pose, jacobian: np.ndarray
     return abs(limit - angle) * abs(dy)
 
 
-def landing(case: Case, built: Built, pose: Pose, jacobian: np.ndarray) -> LandingResult | None:
-    """The landing of the case's drop, or None when the case gives no drop height."""
+def landing_mass(case: Case) -> tuple[float, float] | None:
+    """(mass [t] landing on one leg, direction: +1 the ground pushes the foot up, −1 a hanging
+    payload pulls it down), or None when the case gives no drop."""
     loads = case.loads
     if loads.drop_height_mm is None:
         return None
     if loads.payload_t is not None:
-        mass, direction = loads.payload_t, -1.0
-    elif loads.robot_mass_t is not None:
+        return loads.payload_t, -1.0
+    if loads.robot_mass_t is not None:
         legs = loads.legs_sharing_landing or loads.legs_in_stance or loads.legs
-        mass, direction = loads.robot_mass_t / legs, 1.0
-    else:
+        return loads.robot_mass_t / legs, 1.0
+    return None
+
+
+def landing_damping(case: Case) -> float:
+    """The landing's damping ratio ζ: the case's, else :data:`DEFAULT_DAMPING`."""
+    ratio = case.loads.damping_ratio
+    return ratio if ratio is not None else DEFAULT_DAMPING
+
+
+def landing(case: Case, built: Built, pose: Pose, jacobian: np.ndarray) -> LandingResult | None:
+    """The landing of the case's drop, or None when the case gives no drop height."""
+    drop = landing_mass(case)
+    if drop is None or case.loads.drop_height_mm is None:
         return None
-    curve = landing_curve(case, built, pose, jacobian, loads.foot_pad_N_per_mm, direction)
-    return simulate_landing(mass, loads.drop_height_mm, curve,
-                            loads.damping_ratio if loads.damping_ratio is not None
-                            else DEFAULT_DAMPING)
+    mass, direction = drop
+    curve = landing_curve(case, built, pose, jacobian, case.loads.foot_pad_N_per_mm, direction)
+    return simulate_landing(mass, case.loads.drop_height_mm, curve, landing_damping(case))
+
+
+def impact_forces(case: Case, N: F) -> dict[str, tuple[F, F, F]]:
+    """Foot force (x, y, z) [N] of the landing and slip cases for a landing peak N [N] (a float
+    or an array of peaks, one per pose): the landing straight along the weight's line, the
+    slips with μN fore or aft and a lateral fraction of N sideways."""
+    loads = case.loads
+    weight, _ = weight_on_leg_N(case)
+    mu = loads.friction if loads.friction is not None else DEFAULT_FRICTION
+    lam = (loads.lateral_fraction if loads.lateral_fraction is not None
+           else DEFAULT_LATERAL_FRACTION)
+    up = 1.0 if weight >= 0 else -1.0
+    zero = N * 0.0
+    out = {"landing": (zero, up * N, zero)}
+    if loads.payload_t is None:
+        for sign, label in ((1.0, "fore"), (-1.0, "aft")):
+            out[f"slip {label}"] = (sign * mu * N, N, lam * N)
+    return out
 
 
 def load_cases(case: Case, built: Built, land: LandingResult | None) -> tuple[LoadCase, ...]:
@@ -248,16 +309,15 @@ def load_cases(case: Case, built: Built, land: LandingResult | None) -> tuple[Lo
            else DEFAULT_LATERAL_FRACTION)
     if land is not None:
         N = land.peak_N
-        up = 1.0 if weight >= 0 else -1.0
+        forces = impact_forces(case, N)
         out.append(LoadCase("landing", f"peak foot force {N:.3g} N of a {land.drop_height_mm:g}"
                                        f" mm drop of {land.mass_t * 1e3:.3g} kg "
                                        f"({land.peak_over_weight:.2f} × its weight)",
-                            (0.0, up * N, 0.0)))
-        if loads.payload_t is None:
-            for sign, label in ((1.0, "fore"), (-1.0, "aft")):
-                out.append(LoadCase(f"slip {label}", f"landing force {N:.3g} N with friction "
-                                                     f"{mu:g} × N {label} and {lam:g} × N "
-                                                     "sideways", (sign * mu * N, N, lam * N)))
+                            forces["landing"]))
+        for label in ("fore", "aft") if loads.payload_t is None else ():
+            out.append(LoadCase(f"slip {label}", f"landing force {N:.3g} N with friction "
+                                                 f"{mu:g} × N {label} and {lam:g} × N "
+                                                 "sideways", forces[f"slip {label}"]))
     side = abs(weight) * lam
     out.append(LoadCase("lateral push", f"sideways foot force {side:.3g} N ({lam:g} of the "
                                         f"{name} force), out of the linkage plane",

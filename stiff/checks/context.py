@@ -30,7 +30,8 @@ FloatArray = npt.NDArray[np.float64]
 
 def _rows(a: npt.ArrayLike, *tail: int) -> FloatArray:
     """``a`` as (B, *tail) float64 (a batch axis in front; one pose when there is none)."""
-    return np.asarray(a, np.float64).reshape(-1, *tail)
+    arr = np.asarray(a, np.float64)
+    return arr.reshape(-1, *tail) if arr.size else arr.reshape(1, *tail)
 
 
 @dataclass(frozen=True)

@@ -1,0 +1,316 @@
+"""One design at many poses in one pass: what sweeps and maps compute for each pose.
+
+The frame model of the case is built once (``stiff.build``) and its poses stacked into one
+batched model: only the node positions and the springs' tensions change from pose to pose.
+Every load case of ``stiff.loads`` is then solved for all poses together (one batched solve per
+group of load cases sharing a model), the landing is estimated in each pose (its force-stroke
+curve from batched solves of the leg with its actuators yielding), and every check runs once
+over arrays of poses (``stiff.checks.check_rows``).
+
+The numbers are those `stiff check` gives for the case in each pose: the same engine, formulas
+and load cases; batched solves agree with one-by-one solves to round-off (tested). What is not
+computed here: the report's energy breakdown, play and natural frequencies (asked for only by
+play targets, see :func:`stiff.sweep`), and the check warnings.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, replace
+
+import numpy as np
+import numpy.typing as npt
+
+from stiff.build import Built
+from stiff.case_model import BODY, Case
+from stiff.checks import check_rows
+from stiff.checks.base import CheckRows
+from stiff.checks.context import CheckContext, LoadSet
+from stiff.errors import MechanismError
+from stiff.fe import FrameModel, compliance, node_dofs, preload_loads, solve_static, take
+from stiff.kinematics import Pose
+from stiff.landing import LandingResult, simulate_landing
+from stiff.linkage import part_index
+from stiff.loads import (
+    LoadCase,
+    Response,
+    curve_from_responses,
+    held_foot,
+    impact_forces,
+    landing_damping,
+    landing_mass,
+    load_cases,
+)
+
+FloatArray = npt.NDArray[np.float64]
+IMPACT_PREFIXES = ("landing", "slip")
+
+
+def pose_xyz(case: Case, built: Built, poses: Sequence[Pose]) -> FloatArray:
+    """(P, n_nodes, 3) every model node's position [mm] in each pose."""
+    index = part_index(case)
+    n = built.model.n_nodes
+    part = np.zeros(n, np.intp)
+    ref = np.zeros((n, 2))
+    z = np.zeros(n)
+    body = np.zeros(n, bool)
+    for (name, node), i in built.node_of.items():
+        ref[i] = case.nodes[node]
+        body[i] = name == BODY
+        z[i] = case.body_z_mm if body[i] else case.part(name).z_mm
+        part[i] = 0 if body[i] else index[name]
+    phi = np.array([p.rotation_rad for p in poses])[:, part]  # (P, n)
+    shift = np.array([p.shift_mm for p in poses])[:, part]  # (P, n, 2)
+    c, s = np.cos(phi), np.sin(phi)
+    x = ref[:, 0] * c + ref[:, 1] * -s + shift[..., 0]
+    y = ref[:, 0] * s + ref[:, 1] * c + shift[..., 1]
+    xy = np.where(body[:, None], ref, np.stack([x, y], axis=-1))
+    return np.concatenate([xy, np.broadcast_to(z[:, None], (*xy.shape[:-1], 1))], axis=-1)
+
+
+def spring_tension(case: Case, length_mm: FloatArray) -> FloatArray:
+    """(P, n_springs) each spring's tension [N] at its lengths [mm] (slack or loose: 0)."""
+    out = np.zeros_like(length_mm)
+    for k, s in enumerate(case.springs):
+        L = length_mm[:, k]
+        if s.kind == "extension":
+            out[:, k] = np.where(L < s.free_length_mm, 0.0,
+                                 s.initial_tension_N + s.rate_N_per_mm * (L - s.free_length_mm))
+        else:
+            out[:, k] = np.where(L > s.free_length_mm, 0.0,
+                                 -s.rate_N_per_mm * (s.free_length_mm - L))
+    return out
+
+
+@dataclass(frozen=True)
+class PoseModels:
+    """The case's frame model stacked over poses, and each spring's length [mm] in each."""
+
+    model: FrameModel  # batch (P,)
+    spring_length_mm: FloatArray  # (P, n_springs)
+
+
+def pose_models(case: Case, built: Built, poses: Sequence[Pose]) -> PoseModels:
+    """The batched model of ``built`` in every pose (positions and spring tensions)."""
+    xyz = pose_xyz(case, built, poses)
+    model = built.model
+    springs = model.springs
+    if not springs.count:
+        return PoseModels(replace(model, xyz=xyz), np.zeros((len(poses), 0)))
+    a, b = springs.nodes[:, 0], springs.nodes[:, 1]
+    length = np.linalg.norm(xyz[:, b] - xyz[:, a], axis=-1)
+    tension = spring_tension(case, length)
+    return PoseModels(replace(model, xyz=xyz, springs=replace(
+        springs, tension=tension, rate=np.broadcast_to(springs.rate, tension.shape).copy())),
+        length)
+
+
+def _driven(built: Built) -> list[tuple[int, str]]:
+    return [(i, a) for i, a in enumerate(built.connector_actuator) if a is not None]
+
+
+def freed(built: Built, model: FrameModel, actuators: frozenset[str]) -> FrameModel:
+    """``model`` with the twist stiffness of the given actuators removed (they yield)."""
+    k = np.array(model.connectors.stiffness, copy=True)
+    for i, a in _driven(built):
+        if a in actuators:
+            k[..., i, 5] = 0.0
+    return replace(model, connectors=replace(model.connectors, stiffness=k))
+
+
+def _unit_up(model: FrameModel, foot: int, direction: float) -> FloatArray:
+    loads = np.zeros((1, model.n_nodes, 6))
+    loads[0, foot, 1] = direction
+    return loads
+
+
+def _responses_of(built: Built, model: FrameModel, direction: float
+                  ) -> list[Response]:
+    """Each pose's :data:`stiff.loads.Response` of a batched model (None where a mechanism)."""
+    dofs = node_dofs(model, built.foot, "uy")
+    driven = _driven(built)
+    try:
+        c = compliance(model, dofs)[..., 0, 0]
+        sol = solve_static(model, _unit_up(model, built.foot, direction))
+    except MechanismError:
+        return [_one_response(built, take(model, (p,)), direction)
+                for p in range(model.batch_shape[0])]
+    torques = sol.connector_forces[:, 0, :, 5]
+    return [(float(c[p]), {a: float(torques[p, i]) for i, a in driven})
+            for p in range(c.shape[0])]
+
+
+def _one_response(built: Built, model: FrameModel, direction: float) -> Response:
+    try:
+        c = float(compliance(model, node_dofs(model, built.foot, "uy"))[0, 0])
+        sol = solve_static(model, _unit_up(model, built.foot, direction))
+    except MechanismError:
+        return None
+    return c, {a: float(sol.connector_forces[0, i, 5]) for i, a in _driven(built)}
+
+
+def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[Pose],
+                  jacobians: Sequence[FloatArray]) -> list[LandingResult] | None:
+    """The landing in each pose (as :func:`stiff.loads.landing` there), or None without a
+    drop. The leg's response with each set of actuators yielded is solved for all poses at
+    once, only for the sets some pose's curve reaches."""
+    drop = landing_mass(case)
+    height = case.loads.drop_height_mm
+    if drop is None or height is None:
+        return None
+    mass, direction = drop
+    cache: dict[frozenset[str], list[Response]] = {}
+
+    def response_at(p: int) -> Callable[[frozenset[str]], Response]:
+        def get(yielded: frozenset[str]) -> Response:
+            if yielded not in cache:
+                cache[yielded] = _responses_of(built, freed(built, models.model, yielded),
+                                               direction)
+            return cache[yielded][p]
+        return get
+
+    damping = landing_damping(case)
+    pad = case.loads.foot_pad_N_per_mm
+    out = []
+    for p, (pose, jac) in enumerate(zip(poses, jacobians, strict=True)):
+        curve = curve_from_responses(case, pose, jac, pad, direction, response_at(p))
+        out.append(simulate_landing(mass, height, curve, damping))
+    return out
+
+
+@dataclass(frozen=True)
+class _Group:
+    """Load cases solved on one model: (held foot, stalled actuator) as in stiff.loads."""
+
+    held: bool
+    stalled: str | None
+    cases: list[tuple[LoadCase, FloatArray]]  # each with its foot force (P, 3)
+
+
+def _groups(cases: Sequence[tuple[LoadCase, FloatArray]]) -> list[_Group]:
+    groups: dict[tuple[bool, str | None], _Group] = {}
+    for lc, force in cases:
+        key = (lc.foot_held, lc.stalled[0] if lc.stalled else None)
+        groups.setdefault(key, _Group(key[0], key[1], [])).cases.append((lc, force))
+    return list(groups.values())
+
+
+def _group_loads(model: FrameModel, built: Built, group: _Group) -> FloatArray:
+    """(P, c, n_nodes, 6) the group's loads in every pose."""
+    P = model.batch_shape[0]
+    loads = np.zeros((P, len(group.cases), model.n_nodes, 6))
+    preload = preload_loads(model)
+    for j, (lc, force) in enumerate(group.cases):
+        loads[:, j, built.foot, :3] = force
+        for nl in lc.extra:
+            loads[:, j, nl.node, :3] += nl.force_N
+            loads[:, j, nl.node, 3:] += nl.moment_Nmm
+        if lc.with_preload:
+            loads[:, j] += preload
+    return loads
+
+
+def solve_sets(case: Case, built: Built, models: PoseModels,
+               cases: Sequence[tuple[LoadCase, FloatArray]]) -> dict[str, LoadSet]:
+    """Every load case solved in every pose, as load sets (by name)."""
+    out: dict[str, LoadSet] = {}
+    driven = _driven(built)
+    base = models.model
+    for g in _groups(cases):
+        model = freed(built, base, frozenset({g.stalled})) if g.stalled else base
+        model = held_foot(model, built.foot) if g.held else model
+        sol = solve_static(model, _group_loads(model, built, g))
+        for j, (lc, _) in enumerate(g.cases):
+            torque = sol.connector_forces[:, j, [i for i, _ in driven], 5].copy()
+            for col, (_, a) in enumerate(driven):
+                if lc.stalled is not None and lc.stalled[0] == a:
+                    torque[:, col] = lc.stalled[1]
+            forces = sol.spring_forces[:, j]
+            rates = np.array([s.rate_N_per_mm for s in case.springs])
+            tension = np.broadcast_to(model.springs.tension, forces.shape)
+            one = type(sol)(**{f: getattr(sol, f)[:, j:j + 1]
+                               for f in type(sol).__dataclass_fields__})
+            out[lc.name] = LoadSet(
+                name=lc.name, foot_held=lc.foot_held, model=model, solution=one,
+                xyz_mm=np.asarray(model.xyz), connector_forces=sol.connector_forces[:, j],
+                beam_forces=sol.beam_forces[:, j],
+                foot_deflection_mm=sol.displacements[:, j, built.foot, :3],
+                actuator_names=tuple(a for _, a in driven), actuator_torque_Nmm=torque,
+                stall_torque_Nmm=np.array([case.actuator(a).stall_torque_Nmm
+                                           for _, a in driven]),
+                spring_names=tuple(s.name for s in case.springs), spring_force_N=forces,
+                spring_length_mm=models.spring_length_mm + (forces - tension) / rates
+                if case.springs else np.zeros(forces.shape),
+                spring_max_mm=tuple(s.max_length_mm for s in case.springs))
+    return out
+
+
+@dataclass(frozen=True)
+class PoseChecks:
+    """A case checked in P poses at once.
+
+    ``compliance_mm_per_N`` is the foot's 3x3 compliance (x, y in the linkage plane, z out of
+    it) in each pose; ``rows`` every check over the poses (``stiff.checks.base.CheckRows``,
+    each of length P); ``landings`` the landing in each pose (None without a drop).
+    """
+
+    case: Case
+    built: Built
+    poses: tuple[Pose, ...]
+    compliance_mm_per_N: FloatArray  # (P, 3, 3)
+    landings: tuple[LandingResult, ...] | None
+    load_case_names: tuple[str, ...]
+    rows: tuple[CheckRows, ...]
+
+    def lowest(self, load_cases: Sequence[str] | None = None
+               ) -> tuple[FloatArray, list[CheckRows | None]]:
+        """(P,) the minimum safety factor in each pose over the checks of ``load_cases``
+        (every load case by default), and the row that gives it (None: no check)."""
+        chosen = [r for r in self.rows if load_cases is None or r.load_case in load_cases]
+        P = len(self.poses)
+        if not chosen:
+            return np.full(P, math.inf), [None] * P
+        sf = np.stack([r.safety_factors for r in chosen])
+        at = np.argmin(sf, axis=0)
+        low = sf[at, np.arange(P)]
+        return low, [chosen[int(k)] if math.isfinite(low[p]) else None
+                     for p, k in enumerate(at)]
+
+
+def check_poses(case: Case, built: Built, poses: Sequence[Pose],
+                jacobians: Sequence[FloatArray],
+                landing_at: tuple[Sequence[Pose], Sequence[FloatArray]] | None = None
+                ) -> PoseChecks:
+    """Check the case built as ``built`` in every one of ``poses`` at once.
+
+    Parameters
+    ----------
+    case, built : the case and its frame model in any pose (its layout is used)
+    poses : the poses to check; ``jacobians`` their foot Jacobians [mm/rad]
+    landing_at : the poses (and Jacobians) the landing and slips are taken in, one per pose
+        (a case with a landing pose of its own); by default each pose itself
+    """
+    models = pose_models(case, built, poses)
+    land_poses, land_jac = landing_at if landing_at is not None else (poses, jacobians)
+    land_models = models if landing_at is None else pose_models(case, built, land_poses)
+    landings = pose_landings(case, built, land_models, land_poses, land_jac)
+    template = load_cases(case, built, landings[0] if landings else None)
+    P = len(poses)
+    peaks = np.array([r.peak_N for r in landings]) if landings else np.zeros(P)
+    impact = {k: np.stack(v, axis=-1) for k, v in impact_forces(case, peaks).items()}
+    rest, hits = [], []
+    for lc in template:
+        force = impact.get(lc.name)
+        if force is not None:
+            hits.append((lc, force))
+        else:
+            rest.append((lc, np.broadcast_to(np.asarray(lc.foot_force_N, float), (P, 3))))
+    sets = solve_sets(case, built, models, rest)
+    sets.update(solve_sets(case, built, land_models, hits))
+    ordered = tuple(sets[lc.name] for lc in template)
+    rows = check_rows(CheckContext(case, built, ordered))
+    C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
+    return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,
+                      landings=tuple(landings) if landings else None,
+                      load_case_names=tuple(lc.name for lc in template), rows=rows)
