@@ -25,7 +25,7 @@ from __future__ import annotations
 import itertools
 import math
 from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, overload
 
 import numpy as np
 import numpy.typing as npt
@@ -143,17 +143,32 @@ class Region:
     across_layers: bool
     points_yz_mm: FloatArray
 
+    @overload
+    def stress_range(self, axial_strain: float, curvature_y_per_mm: float,
+                     curvature_z_per_mm: float) -> tuple[float, float]: ...
+
+    @overload
+    def stress_range(self, axial_strain: FloatArray, curvature_y_per_mm: FloatArray,
+                     curvature_z_per_mm: FloatArray) -> tuple[FloatArray, FloatArray]: ...
+
     def stress_range(
-        self, axial_strain: float, curvature_y_per_mm: float, curvature_z_per_mm: float
-    ) -> tuple[float, float]:
+        self, axial_strain: FloatArray | float, curvature_y_per_mm: FloatArray | float,
+        curvature_z_per_mm: FloatArray | float,
+    ) -> tuple[float, float] | tuple[FloatArray, FloatArray]:
         """Least and greatest axial stress on the region [MPa], by strain compatibility.
 
         ε(y, z) = ε₀ + κ_y z - κ_z y (so that σ = N/A - M_z y/I_z + M_y z/I_y in one material);
-        σ = E ε. Curvatures [1/mm], strain dimensionless.
+        σ = E ε. Curvatures [1/mm], strain dimensionless: floats, or arrays that broadcast together
+        (then both results are arrays of their broadcast shape, one range per entry).
         """
         y, z = self.points_yz_mm[:, 0], self.points_yz_mm[:, 1]
-        stress = self.E_MPa * (axial_strain + curvature_y_per_mm * z - curvature_z_per_mm * y)
-        return float(stress.min()), float(stress.max())
+        e0, ky, kz = (np.asarray(v, np.float64)[..., None]
+                      for v in (axial_strain, curvature_y_per_mm, curvature_z_per_mm))
+        stress = self.E_MPa * (e0 + ky * z - kz * y)
+        low, high = stress.min(axis=-1), stress.max(axis=-1)
+        if low.ndim == 0:
+            return float(low), float(high)
+        return low, high
 
 
 @dataclass(frozen=True, eq=False)

@@ -46,15 +46,16 @@ or spline, not through the pin, and is not checked here.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
+from typing import TypeVar
 
 import numpy as np
 
 from stiff.case_model import BODY, Case, Joint
-from stiff.checks.base import CheckRecord
-from stiff.checks.context import CheckContext, FloatArray
-from stiff.loads import LoadCaseResult
-from stiff.strength import metal_strength
+from stiff.checks.base import CheckRows
+from stiff.checks.context import CheckContext, FloatArray, LoadSet, joint_connectors
+from stiff.strength import Allowable, metal_strength
 
 #: Shear strength over ultimate of a pin's plain shank (EN 1993-1-8 Table 3.4, from memory).
 SHEAR_FRACTION = 0.6
@@ -67,22 +68,25 @@ SUGGEST_SHEAR = "a larger or stronger pin (shear capacity grows with d²), or a 
 SUGGEST_BENDING = ("close the gaps between the parts, a larger pin (bending capacity grows with "
                    "d³) or a clevis so the pin works in double shear")
 
+#: A force, moment or stress: one value, or an array of them (one per pose).
+Num = TypeVar("Num", float, FloatArray)
+
 
 # ---------------------------------------------------------------------------------------------
-# Formulas (pure; units in the names)
+# Formulas (pure; units in the names; floats or arrays)
 
 
-def pin_shear_stress(V_N: float, d_mm: float) -> float:
+def pin_shear_stress(V_N: Num, d_mm: float) -> Num:
     """Average shear stress τ = V/(π d²/4) [MPa] on one plane of a pin d [mm] under V [N]."""
     return V_N / (math.pi * d_mm**2 / 4.0)
 
 
-def pin_bending_stress(M_Nmm: float, d_mm: float) -> float:
+def pin_bending_stress(M_Nmm: Num, d_mm: float) -> Num:
     """Outer-fibre bending stress σ = 32M/(π d³) [MPa] of a round pin d [mm] under M [N·mm]."""
     return 32.0 * M_Nmm / (math.pi * d_mm**3)
 
 
-def clevis_moment(P_N: float, t_outer_mm: float, gap_mm: float, t_inner_mm: float) -> float:
+def clevis_moment(P_N: Num, t_outer_mm: float, gap_mm: float, t_inner_mm: float) -> Num:
     """Clevis pin moment M = (P/2)(t1/2 + g + t2/4) [N·mm] (Bruhn §D1, from memory).
 
     P the middle lug's load [N], t1 each outer lug, t2 the middle lug, g the gap [mm].
@@ -90,7 +94,7 @@ def clevis_moment(P_N: float, t_outer_mm: float, gap_mm: float, t_inner_mm: floa
     return 0.5 * P_N * (0.5 * t_outer_mm + gap_mm + 0.25 * t_inner_mm)
 
 
-def single_shear_moment(V_N: float, t1_mm: float, gap_mm: float, t2_mm: float) -> float:
+def single_shear_moment(V_N: Num, t1_mm: float, gap_mm: float, t2_mm: float) -> Num:
     """Moment in a pin joining two parts, M = (V/2)(t1/2 + g + t2/2) [N·mm] (see the module)."""
     return 0.5 * V_N * (0.5 * t1_mm + gap_mm + 0.5 * t2_mm)
 
@@ -101,35 +105,28 @@ def single_shear_moment(V_N: float, t1_mm: float, gap_mm: float, t2_mm: float) -
 
 @dataclass(frozen=True)
 class PinPlane:
-    """One shear plane of a pin: the connector between two neighbouring parts in a load case.
+    """One shear plane of a pin: the connector between two neighbouring parts in a load set.
 
-    ``force_N`` (x, y, z) is the connector's force on part ``a`` (part ``b`` takes its
-    opposite) [N]; ``tilt_Nmm`` its moment about the in-plane axes [N·mm].
+    ``force_N`` (B, 3) is the connector's force (x, y, z) on part ``a`` (part ``b`` takes its
+    opposite) [N]; ``tilt_Nmm`` (B,) its moment about the in-plane axes [N·mm].
     """
 
     a: str
     b: str
     force_N: FloatArray
-    tilt_Nmm: float
+    tilt_Nmm: FloatArray
 
     @property
-    def shear_N(self) -> float:
-        """In-plane force across the plane [N]."""
-        return float(math.hypot(self.force_N[0], self.force_N[1]))
+    def shear_N(self) -> FloatArray:
+        """(B,) in-plane force across the plane [N]."""
+        return np.hypot(self.force_N[:, 0], self.force_N[:, 1])
 
 
-def pin_planes(ctx: CheckContext, result: LoadCaseResult, joint: Joint) -> list[PinPlane]:
-    """The shear planes of a joint's pin in one load case, in the order of its parts."""
-    forces = result.solution.connector_forces[0]
-    out: list[PinPlane] = []
-    for i, name in enumerate(ctx.built.connector_joint):
-        if name != joint.name:
-            continue
-        k = len(out)
-        f = np.asarray(forces[i], np.float64)
-        out.append(PinPlane(joint.parts[k], joint.parts[k + 1], f[:3],
-                            float(math.hypot(f[3], f[4]))))
-    return out
+def pin_planes(ctx: CheckContext, loads: LoadSet, joint: Joint) -> list[PinPlane]:
+    """The shear planes of a joint's pin in one load set, in the order of its parts."""
+    forces = loads.connector_forces
+    return [PinPlane(a, b, forces[:, i, :3], np.hypot(forces[:, i, 3], forces[:, i, 4]))
+            for i, a, b in joint_connectors(ctx.built, joint)]
 
 
 def part_thickness(case: Case, joint: Joint, name: str) -> float:
@@ -157,79 +154,139 @@ def gaps(case: Case, joint: Joint) -> list[float]:
     return [abs(z[i + 1] - z[i]) - 0.5 * (t[i] + t[i + 1]) for i in range(len(t) - 1)]
 
 
-def arm_moment(case: Case, joint: Joint, planes: list[PinPlane]) -> tuple[float, str]:
-    """The clevis-arm bending moment of a pin in one load case [N·mm], and how it was found."""
+def _single_shear(case: Case, joint: Joint, plane: PinPlane
+                  ) -> tuple[FloatArray, Callable[[int], str]]:
+    t = [part_thickness(case, joint, p) for p in joint.parts]
+    g = max(0.0, gaps(case, joint)[0])
+    V = plane.shear_N
+    M = single_shear_moment(V, t[0], g, t[1])
+
+    def text(i: int) -> str:
+        return (f"two parts, single shear: M = (V/2)(t1/2 + g + t2/2) with V = {float(V[i]):.4g} "
+                f"N, t1 = {t[0]:.3g}, g = {g:.3g}, t2 = {t[1]:.3g} mm (practice)")
+    return M, text
+
+
+def _clevis(case: Case, joint: Joint, planes: list[PinPlane]
+            ) -> tuple[FloatArray, Callable[[int], str]]:
+    """The largest clevis moment over every middle part and both its sides, per entry."""
     t = [part_thickness(case, joint, p) for p in joint.parts]
     g = [max(0.0, v) for v in gaps(case, joint)]
-    if len(planes) == 1:
-        V = planes[0].shear_N
-        M = single_shear_moment(V, t[0], g[0], t[1])
-        return M, (f"two parts, single shear: M = (V/2)(t1/2 + g + t2/2) with V = {V:.4g} N, "
-                   f"t1 = {t[0]:.3g}, g = {g[0]:.3g}, t2 = {t[1]:.3g} mm (practice)")
-    best, text = 0.0, ""
+    moments, halves, sides = [], [], []
     for k in range(1, len(planes)):
         left, right = planes[k - 1], planes[k]
-        P = float(math.hypot(*(right.force_N[:2] - left.force_N[:2])))
-        half = max(left.shear_N, right.shear_N, 0.5 * P)
+        d = right.force_N[:, :2] - left.force_N[:, :2]
+        half = np.maximum(np.maximum(left.shear_N, right.shear_N), 0.5 * np.hypot(d[:, 0], d[:, 1]))
         for t1, gap in ((t[k - 1], g[k - 1]), (t[k + 1], g[k])):
-            M = clevis_moment(2.0 * half, t1, gap, t[k])
-            if best <= M:
-                best = M
-                text = (f"clevis round {joint.parts[k]}: M = (P/2)(t1/2 + g + t2/4) with P/2 = "
-                        f"{half:.4g} N (the larger plane), t1 = {t1:.3g}, g = {gap:.3g}, t2 = "
-                        f"{t[k]:.3g} mm (Bruhn §D1, from memory; the longer side)")
-    return best, text
+            moments.append(clevis_moment(2.0 * half, t1, gap, t[k]))
+            halves.append(half)
+            sides.append((k, t1, gap))
+    M_all = np.stack(moments)
+    # the last of equal candidates governs (as a running "best <= M" would keep it)
+    pick = len(moments) - 1 - np.argmax(M_all[::-1], axis=0)
+    M: FloatArray = np.take_along_axis(M_all, pick[None], axis=0)[0]
+    half_all = np.stack(halves)
+
+    def text(i: int) -> str:
+        c = int(pick[i])
+        k, t1, gap = sides[c]
+        return (f"clevis round {joint.parts[k]}: M = (P/2)(t1/2 + g + t2/4) with P/2 = "
+                f"{float(half_all[c, i]):.4g} N (the larger plane), t1 = {t1:.3g}, g = "
+                f"{gap:.3g}, t2 = {t[k]:.3g} mm (Bruhn §D1, from memory; the longer side)")
+    return M, text
+
+
+def arm_moment(case: Case, joint: Joint, planes: list[PinPlane]
+               ) -> tuple[FloatArray, Callable[[int], str]]:
+    """(B,) clevis-arm bending moment of a pin in one load set [N·mm], and, for entry i, how it
+    was found."""
+    if len(planes) == 1:
+        return _single_shear(case, joint, planes[0])
+    return _clevis(case, joint, planes)
 
 
 # ---------------------------------------------------------------------------------------------
 # Checks
 
 
-def pin_checks(ctx: CheckContext, joint: Joint, result: LoadCaseResult) -> list[CheckRecord]:
-    """Shear on each plane and bending of one joint's pin in one load case."""
+@dataclass(frozen=True)
+class _Pin:
+    """What a pin's checks need that no load changes: found once per joint."""
+
+    joint: Joint
+    d_mm: float
+    shear: Allowable
+    yield_: Allowable
+    required: float
+
+    @property
+    def item(self) -> str:
+        return f"pin {self.joint.name}"
+
+
+def _pin(ctx: CheckContext, joint: Joint) -> _Pin | None:
     if joint.pin_diameter_mm is None or joint.pin_material is None:
-        return []
-    d = joint.pin_diameter_mm
+        return None
     metal = ctx.case.library.metal(joint.pin_material)
-    planes = pin_planes(ctx, result, joint)
-    if not planes:
-        return []
-    item = f"pin {joint.name}"
-    need = ctx.required("pin")
     shear = metal_strength(metal, "ultimate").scaled(
         SHEAR_FRACTION, f"shear strength × {SHEAR_FRACTION:g} of the ultimate (plain shank, "
                         "α_v = 0.6 of EN 1993-1-8 Table 3.4, from memory)")
-    out = []
-    for p in planes:
-        out.append(CheckRecord(
-            item=item, kind="pin", mode=f"shear, plane {p.a}–{p.b}", load_case=result.name,
-            demand=pin_shear_stress(p.shear_N, d), capacity=shear.value_MPa, unit="MPa",
-            required_factor=need,
-            basis=(f"τ = V/(π d²/4), V = {p.shear_N:.4g} N across the plane, d = {d:g} mm "
-                   f"({joint.pin_material}); {shear.provenance}"),
-            suggestion=SUGGEST_SHEAR))
-    M_arm, arm_text = arm_moment(ctx.case, joint, planes)
-    M_model = max(p.tilt_Nmm for p in planes)
-    M = max(M_arm, M_model)
-    which = "the clevis arm" if M_arm >= M_model else "the model's connector moment"
-    yield_ = metal_strength(metal, "yield")
-    out.append(CheckRecord(
-        item=item, kind="pin", mode="bending", load_case=result.name,
-        demand=pin_bending_stress(M, d), capacity=yield_.value_MPa, unit="MPa",
-        required_factor=need,
-        basis=(f"σ = 32M/(π d³), M = {M:.4g} N·mm, the larger of {arm_text}: {M_arm:.4g} N·mm, "
-               f"and the model's connector tilt moment {M_model:.4g} N·mm ({which} governs); "
-               f"against first yield, {yield_.provenance}; the plastic shape factor "
-               f"{PLASTIC_SHAPE_FACTOR:.2f} of a round section not used (a yielded pin stays "
-               "bent)"),
-        suggestion=SUGGEST_BENDING))
-    return out
+    return _Pin(joint, joint.pin_diameter_mm, shear, metal_strength(metal, "yield"),
+                ctx.required("pin"))
 
 
-def checks(ctx: CheckContext) -> list[CheckRecord]:
-    """Every pin of every pin and driven joint in every load case."""
-    joints = [j for j in ctx.case.joints if j.kind in ("pin", "driven")]
-    return [r for result in ctx.results for j in joints for r in pin_checks(ctx, j, result)]
+def _shear_row(pin: _Pin, loads: LoadSet, plane: PinPlane) -> CheckRows:
+    V = plane.shear_N
+    head = "τ = V/(π d²/4), V = "
+    tail = (f" N across the plane, d = {pin.d_mm:g} mm ({pin.joint.pin_material}); "
+            f"{pin.shear.provenance}")
+
+    def basis(i: int) -> str:
+        return f"{head}{float(V[i]):.4g}{tail}"
+    return CheckRows(
+        item=pin.item, kind="pin", mode=f"shear, plane {plane.a}–{plane.b}", load_case=loads.name,
+        demand=pin_shear_stress(V, pin.d_mm), capacity=pin.shear.value_MPa, unit="MPa",
+        required_factor=pin.required, basis=basis, suggestion=SUGGEST_SHEAR)
+
+
+def _bending_row(ctx: CheckContext, pin: _Pin, loads: LoadSet, planes: list[PinPlane]
+                 ) -> CheckRows:
+    M_arm, arm_text = arm_moment(ctx.case, pin.joint, planes)
+    M_model = np.max(np.stack([p.tilt_Nmm for p in planes]), axis=0)
+    M = np.maximum(M_arm, M_model)
+    tail = (f"; against first yield, {pin.yield_.provenance}; the plastic shape factor "
+            f"{PLASTIC_SHAPE_FACTOR:.2f} of a round section not used (a yielded pin stays bent)")
+
+    def basis(i: int) -> str:
+        which = "the clevis arm" if M_arm[i] >= M_model[i] else "the model's connector moment"
+        return (f"σ = 32M/(π d³), M = {float(M[i]):.4g} N·mm, the larger of {arm_text(i)}: "
+                f"{float(M_arm[i]):.4g} N·mm, and the model's connector tilt moment "
+                f"{float(M_model[i]):.4g} N·mm ({which} governs){tail}")
+    return CheckRows(
+        item=pin.item, kind="pin", mode="bending", load_case=loads.name,
+        demand=pin_bending_stress(M, pin.d_mm), capacity=pin.yield_.value_MPa, unit="MPa",
+        required_factor=pin.required, basis=basis, suggestion=SUGGEST_BENDING)
+
+
+def _pin_rows(ctx: CheckContext, pin: _Pin, loads: LoadSet) -> list[CheckRows]:
+    planes = pin_planes(ctx, loads, pin.joint)
+    if not planes:
+        return []
+    return ([_shear_row(pin, loads, p) for p in planes]
+            + [_bending_row(ctx, pin, loads, planes)])
+
+
+def pin_checks(ctx: CheckContext, joint: Joint, loads: LoadSet) -> list[CheckRows]:
+    """Shear on each plane and bending of one joint's pin in one load set (B poses)."""
+    pin = _pin(ctx, joint)
+    return [] if pin is None else _pin_rows(ctx, pin, loads)
+
+
+def checks(ctx: CheckContext) -> list[CheckRows]:
+    """Every pin of every pin and driven joint in every load set."""
+    found = (_pin(ctx, j) for j in ctx.case.joints if j.kind in ("pin", "driven"))
+    pins = [p for p in found if p is not None]
+    return [r for loads in ctx.loads for p in pins for r in _pin_rows(ctx, p, loads)]
 
 
 def warnings(ctx: CheckContext) -> list[str]:
