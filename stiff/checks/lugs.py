@@ -91,20 +91,30 @@ walls and skins at the bore and the faces: no infill share.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, TypeVar
+
+import numpy as np
 
 from stiff.case_model import BODY, Case, Joint, Part, Section
 from stiff.checks.allowables import printed_allowable
-from stiff.checks.base import CheckRecord
-from stiff.checks.context import CheckContext, FloatArray, joint_forces, member_direction
+from stiff.checks.base import BoolArray, CheckRows
+from stiff.checks.context import (
+    CheckContext,
+    FloatArray,
+    LoadSet,
+    joint_forces,
+    member_direction,
+)
 from stiff.infill import law
-from stiff.loads import LoadCaseResult
 from stiff.materials import PrintedMaterial
 from stiff.printed_sections import PrintSettings
 from stiff.printing import BuildDirection
 from stiff.strength import Allowable, across_layers_strength, in_layer_strength, member_strength
 
+#: A float, or an array of them (say one per pose of a load set).
+Num = TypeVar("Num", float, FloatArray)
 #: Lug axes: x along the lug, y across it in the linkage plane, z along the pin.
 Axis = Literal["x", "y", "z"]
 #: The build axis (normal to the layers) of each build direction, in lug axes.
@@ -134,60 +144,71 @@ SUGGEST = {
 }
 
 
+def _like(ref: Num, value: FloatArray) -> Num:
+    """``value`` as a float when ``ref`` is one, else as an array."""
+    if isinstance(ref, np.ndarray):
+        return value
+    return float(value)
+
+
 # ---------------------------------------------------------------------------------------------
-# Formulas (pure; units in the names)
+# Formulas (pure; units in the names; the first argument a float or an array, e.g. over B)
 
 
-def bearing_stress(P_N: float, d_mm: float, t_mm: float) -> float:
+def bearing_stress(P_N: Num, d_mm: float, t_mm: float) -> Num:
     """Bearing stress σ_br = P/(d t) [MPa] of a pin load P [N], pin d [mm], lug thickness t [mm]."""
     return P_N / (d_mm * t_mm)
 
 
-def net_tension_kt(d_over_w: float) -> float:
+def net_tension_kt(d_over_w: Num) -> Num:
     """Net-section K_t of a lug loaded by a close-fitting pin, at hole over width ``d_over_w``.
 
     K_t = 12.882 − 52.714x + 89.762x² − 51.667x³ on σ0 = P/((w − d)t), x = d/w clamped to the fit's
     0.15–0.75 (Roark's Formulas for Stress and Strain, 7th ed., Table 17.1, from memory).
     """
     lo, hi = KT_FIT_RANGE
-    x = min(max(d_over_w, lo), hi)
+    x = np.clip(d_over_w, lo, hi)
     c0, c1, c2, c3 = KT_FIT_COEFFS
-    return c0 + c1 * x + c2 * x**2 + c3 * x**3
+    return _like(d_over_w, c0 + c1 * x + c2 * x**2 + c3 * x**3)
 
 
-def kt_with_clearance(kt: float, clearance_mm: float) -> float:
+def kt_with_clearance(kt: Num, clearance_mm: float) -> Num:
     """K_t raised by 35 % when the pin has any radial clearance ``clearance_mm`` [mm] (Shigley)."""
-    return kt * CLEARANCE_KT_FACTOR if clearance_mm > 0.0 else kt
+    return _like(kt, np.where(np.asarray(clearance_mm) > 0.0, kt * CLEARANCE_KT_FACTOR, kt))
 
 
-def net_tension_stress(P_N: float, D_mm: float, W_mm: float, t_mm: float, kt: float) -> float:
+def net_tension_stress(P_N: Num, D_mm: float, W_mm: float, t_mm: float, kt: float) -> Num:
     """Peak net-section stress K_t P/((W − D) t) [MPa]; P [N], hole D, width W, thickness t [mm]."""
     return kt * P_N / ((W_mm - D_mm) * t_mm)
 
 
-def shear_out_length(e_mm: float, D_mm: float) -> float:
+def shear_out_length(e_mm: Num, D_mm: float) -> Num:
     """Length of each shear-out plane a_s = e − (D/2) cos 40° [mm] (Bruhn §D1)."""
     return e_mm - 0.5 * D_mm * math.cos(SHEAR_OUT_ANGLE_RAD)
 
 
-def shear_out_stress(P_N: float, D_mm: float, t_mm: float, e_mm: float) -> float:
+def shear_out_stress(P_N: Num, D_mm: float, t_mm: float, e_mm: float) -> Num:
     """Shear-out stress τ = P/(2 t a_s) [MPa] over two planes of length a_s (Bruhn §D1)."""
     return P_N / (2.0 * t_mm * shear_out_length(e_mm, D_mm))
 
 
-def interaction_factor(R_a: float, R_tr: float) -> float:
-    """Safety factor of an oblique lug load, (R_a^1.6 + R_tr^1.6)^−0.625 (Air Force method)."""
-    total = R_a**INTERACTION_EXPONENT + R_tr**INTERACTION_EXPONENT
-    return math.inf if total == 0.0 else total ** (-1.0 / INTERACTION_EXPONENT)
+def interaction_factor(R_a: Num, R_tr: Num) -> Num:
+    """Safety factor of an oblique lug load, (R_a^1.6 + R_tr^1.6)^−0.625 (Air Force method);
+    ∞ where both ratios are zero."""
+    total = np.asarray(R_a, np.float64) ** INTERACTION_EXPONENT + np.asarray(
+        R_tr, np.float64) ** INTERACTION_EXPONENT
+    out = np.full(total.shape, np.inf)
+    np.power(total, -1.0 / INTERACTION_EXPONENT, out=out, where=total > 0.0)
+    return _like(R_a, out)
 
 
-def bending_stress(M_Nmm: float, W_mm: float, t_mm: float) -> float:
+def bending_stress(M_Nmm: Num, W_mm: float, t_mm: float) -> Num:
     """Out-of-plane bending stress 6M/(W t²) [MPa] of a lug section W × t [mm] under M [N·mm]."""
     return 6.0 * M_Nmm / (W_mm * t_mm**2)
 
 
-def solid_share(length_mm: float, thickness_mm: float, band_length_mm: float,
-                band_thickness_mm: float, core_ratio: float) -> float:
+def solid_share(length_mm: Num, thickness_mm: float, band_length_mm: float,
+                band_thickness_mm: float, core_ratio: float) -> Num:
     """Strength of a printed cut over a solid one: φ + (1 − φ) σ*/σ_s.
 
     Parameters
@@ -201,23 +222,28 @@ def solid_share(length_mm: float, thickness_mm: float, band_length_mm: float,
     core_ratio
         The infill's strength over the solid's, σ*/σ_s.
     """
-    core = max(0.0, length_mm - 2.0 * band_length_mm) * max(0.0, thickness_mm
-                                                             - 2.0 * band_thickness_mm)
+    core = (np.maximum(0.0, length_mm - 2.0 * band_length_mm)
+            * np.maximum(0.0, thickness_mm - 2.0 * band_thickness_mm))
     phi = 1.0 - core / (length_mm * thickness_mm)
-    return phi + (1.0 - phi) * core_ratio
+    return _like(length_mm, phi + (1.0 - phi) * core_ratio)
 
 
-def split_load(force_xy: FloatArray, axis_xy: FloatArray | None) -> tuple[float, float]:
+def split_load(force_xy: FloatArray, axis_xy: FloatArray | None
+               ) -> tuple[FloatArray, FloatArray]:
     """(P_a, P_tr) [N]: the pin load on the lug towards its end and across it.
 
-    ``force_xy`` is the in-plane force on the part [N]; ``axis_xy`` the unit vector from the hole
-    into the part (``None``: unknown, the whole load taken as pulling towards the end).
+    ``force_xy`` (..., 2) is the in-plane force on the part [N]; ``axis_xy`` (..., 2) the unit
+    vector from the hole into the part. Where it is unknown (``None`` or a zero row) the whole
+    load is taken as pulling towards the end.
     """
-    fx, fy = float(force_xy[0]), float(force_xy[1])
+    fx, fy = force_xy[..., 0], force_xy[..., 1]
     if axis_xy is None:
-        return math.hypot(fx, fy), 0.0
-    ux, uy = float(axis_xy[0]), float(axis_xy[1])
-    return -(fx * ux + fy * uy), abs(fx * uy - fy * ux)
+        return np.hypot(fx, fy), np.zeros_like(fx)
+    ux, uy = axis_xy[..., 0], axis_xy[..., 1]
+    unknown = (ux == 0.0) & (uy == 0.0)
+    P_a = np.where(unknown, np.hypot(fx, fy), -(fx * ux + fy * uy))
+    P_tr = np.where(unknown, 0.0, np.abs(fx * uy - fy * ux))
+    return P_a, P_tr
 
 
 # ---------------------------------------------------------------------------------------------
@@ -355,38 +381,99 @@ def cut_share(settings: PrintSettings, along: Axis, stress_in_layer: bool, lengt
 
 
 # ---------------------------------------------------------------------------------------------
-# Checks
+# Checks: each mode once per lug (geometry, strengths, formula text), its allowable once per load
+# case, its demand over the load set's B entries at once
+
+
+@dataclass(frozen=True)
+class _Quote:
+    """Text quoting each entry's own values (4 figures) between fixed pieces of text:
+    ``texts[0] values[0][i] texts[1] ... values[-1][i] texts[-1]``."""
+
+    texts: tuple[str, ...]
+    values: tuple[FloatArray, ...]
+
+    def __call__(self, i: int) -> str:
+        quoted = (f"{v[i]:.4g}{t}" for v, t in zip(self.values, self.texts[1:], strict=True))
+        return self.texts[0] + "".join(quoted)
+
+
+@dataclass(frozen=True)
+class _Either:
+    """``first`` for the entries where ``pick`` is true, ``second`` elsewhere."""
+
+    pick: BoolArray
+    first: str
+    second: str
+
+    def __call__(self, i: int) -> str:
+        return self.first if self.pick[i] else self.second
 
 
 @dataclass(frozen=True)
 class _Mode:
-    """One lug check before it becomes a record: its stress and what resists it."""
+    """One lug mode, independent of the load: what resists it and how its load stresses it."""
 
     name: str
     key: str  # the SUGGEST key
-    demand_MPa: float
     strength: PlaneStrength
     share: float
     share_step: str
-    area_mm2: float  # demand × area = the load component [N] (bending: section modulus)
-    formula: str
+    area_mm2: float  # stress × area = the load component [N] (bending: section modulus)
+    stress: Callable[[FloatArray], FloatArray]  # load component [N; bending N·mm] -> [MPa]
+    formula: tuple[str, str]  # the formula's text before and after the quoted load
 
-    def record(self, ctx: CheckContext, lug: LugGeometry, material: PrintedMaterial,
-               load_case: str) -> tuple[CheckRecord, float]:
-        """The check record and the mode's capacity as a load [N]."""
-        allowable = printed_allowable(self.strength.mean, material, self.strength.across,
+    def resisted(self, ctx: CheckContext, lug: LugGeometry, material: PrintedMaterial,
+                 load_case: str) -> _Resisted:
+        """The mode in one load case: its allowable chain, made once."""
+        across = self.strength.across
+        allowable = printed_allowable(self.strength.mean, material, across,
                                       ctx.duty(load_case), ctx.samples)
-        capacity = allowable.value_MPa * self.share
-        steps = [self.formula, f"lug {lug.describe()}", allowable.provenance]
+        steps = ["", f"lug {lug.describe()}", allowable.provenance]
         if self.share_step:
             steps.append(self.share_step)
-        rec = CheckRecord(
-            item=lug.item, kind="lug", mode=self.name, load_case=load_case,
-            demand=self.demand_MPa, capacity=capacity, unit="MPa",
-            required_factor=ctx.required("across_layers" if self.strength.across else "in_layer"),
-            basis="; ".join(steps),
-            suggestion=REORIENT if self.strength.across else SUGGEST[self.key])
-        return rec, capacity * self.area_mm2
+        return _Resisted(
+            self, allowable.value_MPa * self.share,
+            ctx.required("across_layers" if across else "in_layer"), "; ".join(steps),
+            REORIENT if across else SUGGEST[self.key])
+
+
+@dataclass(frozen=True)
+class _Resisted:
+    """A lug mode in one load case: capacity, required factor, the basis after the formula."""
+
+    mode: _Mode
+    capacity_MPa: float
+    required_factor: float
+    tail: str  # "; " + the lug, the allowable's chain and the printed cut
+    suggestion: str
+
+    @property
+    def capacity_N(self) -> float:
+        """The capacity as a load [N]."""
+        return self.capacity_MPa * self.mode.area_mm2
+
+    def rows(self, item: str, load_case: str, load: FloatArray, applies: BoolArray | None
+             ) -> CheckRows:
+        """The check at each entry's load component ``load`` (B,) [N; bending N·mm]."""
+        before, after = self.mode.formula
+        return CheckRows(
+            item=item, kind="lug", mode=self.mode.name, load_case=load_case,
+            demand=self.mode.stress(load), capacity=self.capacity_MPa, unit="MPa",
+            required_factor=self.required_factor,
+            basis=_Quote((before, after + self.tail), (load,)), suggestion=self.suggestion,
+            applies=applies)
+
+
+@dataclass(frozen=True)
+class _LugModes:
+    """Every mode of one lug: bearing, the axial ones, side tear-out, bending along and across."""
+
+    material: PrintedMaterial
+    bearing: _Mode
+    axial: tuple[_Mode, _Mode]
+    transverse: _Mode
+    bending: tuple[_Mode, _Mode]
 
 
 def _named(base: str, s: PlaneStrength) -> str:
@@ -395,141 +482,178 @@ def _named(base: str, s: PlaneStrength) -> str:
     return f"{base} (interlayer shear)" if s.across else base
 
 
-def _modes(lug: LugGeometry, material: PrintedMaterial, P: float, P_a: float, P_tr: float
-           ) -> tuple[_Mode, list[_Mode], list[_Mode]]:
-    """Bearing, the axial modes (P_a > 0) and the transverse mode (P_tr > 0)."""
+def _kt_notes(lug: LugGeometry) -> tuple[float, str]:
+    """The net section's K_t, and the basis text that says how it was found."""
+    D, W, e = lug.hole_mm, lug.width_mm, lug.edge_mm
+    x = D / W
+    kt0 = net_tension_kt(x)
+    kt = kt_with_clearance(kt0, lug.joint.clearance_mm)
+    lo, hi = KT_FIT_RANGE
+    notes = [f"K_t = {kt0:.3f} at D/W = {x:.3f} (Roark 7th ed. Table 17.1 fit, from memory)"]
+    if not lo <= x <= hi:
+        notes.append(f"D/W outside the fit's {lo:g}–{hi:g}: taken at {min(max(x, lo), hi):g}")
+    if e < W:
+        notes.append(f"the fit assumes an end at least W beyond the hole, here e/W = "
+                     f"{e / W:.2f}: K_t may be higher (shear-out covers the short end)")
+    if kt != kt0:
+        notes.append(f"× {CLEARANCE_KT_FACTOR:g} for the {lug.joint.clearance_mm:g} mm "
+                     "clearance (Shigley Table A-15, Fig. A-15-12: +35–50 %)")
+    return kt, "; ".join(notes)
+
+
+def _modes(lug: LugGeometry, material: PrintedMaterial) -> tuple[_Mode, tuple[_Mode, _Mode],
+                                                                   _Mode]:
+    """Bearing (under P), the axial modes (under P_a > 0) and side tear-out (under P_tr > 0)."""
     s = lug.section.settings
     build = s.build
     D, d, t, W, e = lug.hole_mm, lug.pin_mm, lug.thickness_mm, lug.width_mm, lug.edge_mm
     bearing = _Mode(
-        "bearing", "bearing", bearing_stress(P, d, t),
+        "bearing", "bearing",
         PlaneStrength(member_strength(material, build, "compression"), False, False), 1.0, "",
-        d * t, f"σ_br = P/(d t), P = {P:.4g} N (Bruhn §D1); bearing allowable: the printed "
-               "compressive strength (practice)")
-    axial: list[_Mode] = []
-    if P_a > 0.0:
-        x = D / W
-        kt0 = net_tension_kt(x)
-        kt = kt_with_clearance(kt0, lug.joint.clearance_mm)
-        lo, hi = KT_FIT_RANGE
-        notes = [f"K_t = {kt0:.3f} at D/W = {x:.3f} (Roark 7th ed. Table 17.1 fit, from memory)"]
-        if not lo <= x <= hi:
-            notes.append(f"D/W outside the fit's {lo:g}–{hi:g}: taken at {min(max(x, lo), hi):g}")
-        if e < W:
-            notes.append(f"the fit assumes an end at least W beyond the hole, here e/W = "
-                         f"{e / W:.2f}: K_t may be higher (shear-out covers the short end)")
-        if kt != kt0:
-            notes.append(f"× {CLEARANCE_KT_FACTOR:g} for the {lug.joint.clearance_mm:g} mm "
-                         "clearance (Shigley Table A-15, Fig. A-15-12: +35–50 %)")
-        nt = tension_strength(material, build, "x", 0.0)
-        share, step = cut_share(s, "y", not nt.across, (W - D) / 2, t)
-        axial.append(_Mode(
-            _named("net tension", nt), "net tension", net_tension_stress(P_a, D, W, t, kt), nt,
-            share, step, (W - D) * t / kt,
-            f"σ = K_t P_a/((W − D) t), P_a = {P_a:.4g} N along the lug towards its end, K_t = "
-            f"{kt:.3f}: " + "; ".join(notes)))
-        so = shear_strength(material, build, "y")
-        a_s = shear_out_length(e, D)
-        share, step = cut_share(s, "x", build == "flat", a_s, t)
-        axial.append(_Mode(
-            _named("shear-out", so), "shear-out", shear_out_stress(P_a, D, t, e), so, share,
-            step, 2.0 * t * a_s,
-            f"τ = P_a/(2 t a_s), a_s = e − (D/2) cos 40° = {a_s:.3g} mm, P_a = {P_a:.4g} N "
-            "(Bruhn §D1)"))
-    transverse: list[_Mode] = []
-    if P_tr > 0.0:
-        st = shear_strength(material, build, "x")
-        a_tr = shear_out_length(W / 2, D)
-        share, step = cut_share(s, "y", build == "flat", a_tr, t)
-        transverse.append(_Mode(
-            _named("side tear-out", st), "side tear-out", shear_out_stress(P_tr, D, t, W / 2),
-            st, share, step, 2.0 * t * a_tr,
-            f"τ = P_tr/(2 t a_tr), a_tr = W/2 − (D/2) cos 40° = {a_tr:.3g} mm, P_tr = "
-            f"{P_tr:.4g} N across the lug (Bruhn's shear-out planes turned to the side edge, "
-            "derived)"))
-    return bearing, axial, transverse
+        d * t, lambda P: bearing_stress(P, d, t),
+        ("σ_br = P/(d t), P = ", " N (Bruhn §D1); bearing allowable: the printed compressive "
+                                 "strength (practice)"))
+    kt, notes = _kt_notes(lug)
+    nt = tension_strength(material, build, "x", 0.0)
+    share, step = cut_share(s, "y", not nt.across, (W - D) / 2, t)
+    net = _Mode(
+        _named("net tension", nt), "net tension", nt, share, step, (W - D) * t / kt,
+        lambda P: net_tension_stress(P, D, W, t, kt),
+        ("σ = K_t P_a/((W − D) t), P_a = ",
+         f" N along the lug towards its end, K_t = {kt:.3f}: {notes}"))
+    so = shear_strength(material, build, "y")
+    a_s = shear_out_length(e, D)
+    share, step = cut_share(s, "x", build == "flat", a_s, t)
+    shear_out = _Mode(
+        _named("shear-out", so), "shear-out", so, share, step, 2.0 * t * a_s,
+        lambda P: shear_out_stress(P, D, t, e),
+        (f"τ = P_a/(2 t a_s), a_s = e − (D/2) cos 40° = {a_s:.3g} mm, P_a = ", " N (Bruhn §D1)"))
+    st = shear_strength(material, build, "x")
+    a_tr = shear_out_length(W / 2, D)
+    share, step = cut_share(s, "y", build == "flat", a_tr, t)
+    tear_out = _Mode(
+        _named("side tear-out", st), "side tear-out", st, share, step, 2.0 * t * a_tr,
+        lambda P: shear_out_stress(P, D, t, W / 2),
+        (f"τ = P_tr/(2 t a_tr), a_tr = W/2 − (D/2) cos 40° = {a_tr:.3g} mm, P_tr = ",
+         " N across the lug (Bruhn's shear-out planes turned to the side edge, derived)"))
+    return bearing, (net, shear_out), tear_out
 
 
-def _bending(lug: LugGeometry, material: PrintedMaterial, moment_Nmm: FloatArray,
-             axis_xy: FloatArray | None) -> list[_Mode]:
-    """Out-of-plane bending from the pin's tilt, σ along and across the lug."""
-    mx, my = float(moment_Nmm[0]), float(moment_Nmm[1])
-    if axis_xy is None:
-        tilt = math.hypot(mx, my)
-        about_x = about_y = tilt
-    else:
-        ux, uy = float(axis_xy[0]), float(axis_xy[1])
-        about_x, about_y = abs(mx * ux + my * uy), abs(-mx * uy + my * ux)
+def _bending(lug: LugGeometry, material: PrintedMaterial) -> tuple[_Mode, _Mode]:
+    """Out-of-plane bending from the pin's tilt: σ along the lug (the tilt about y), and across
+    it (about x)."""
     build = lug.section.settings.build
     angle = SKIN_LINE_ANGLE_RAD if build == "flat" else 0.0
     W, t = lug.width_mm, lug.thickness_mm
-    out = []
-    cases: tuple[tuple[float, Axis, str], ...] = ((about_y, "x", "along"), (about_x, "y", "across"))
-    for M, axis, where in cases:
-        if M <= 0.0:
-            continue
+
+    def mode(axis: Axis, where: str) -> _Mode:
         ps = tension_strength(material, build, axis, angle)
         name = ("out-of-plane bending, split along layers" if ps.across
                 else "out-of-plane bending")
-        out.append(_Mode(
-            name, "bending", bending_stress(M, W, t), ps, 1.0, "", W * t**2 / 6.0,
-            f"σ = 6M/(W t²), M = {M:.4g} N·mm of the pin's tilt moment, stress {where} the lug, "
-            "on the lug's full section beside the hole (assumed; see stiff.checks.lugs)"))
-    return out
+        return _Mode(
+            name, "bending", ps, 1.0, "", W * t**2 / 6.0, lambda M: bending_stress(M, W, t),
+            ("σ = 6M/(W t²), M = ", f" N·mm of the pin's tilt moment, stress {where} the lug, "
+                                   "on the lug's full section beside the hole (assumed; see "
+                                   "stiff.checks.lugs)"))
+
+    return mode("x", "along"), mode("y", "across")
 
 
-def lug_checks(ctx: CheckContext, lug: LugGeometry, result: LoadCaseResult) -> list[CheckRecord]:
-    """Every check of one lug in one load case (see the module docstring)."""
-    force = next(f for f in joint_forces(ctx, result, lug.joint) if f.part == lug.part.name)
-    material = ctx.case.library.printed_material(lug.section.material)
-    axis = member_direction(ctx, lug.part, lug.joint.node)
-    P = force.bearing_N
-    P_a, P_tr = split_load(force.force_N, axis)
-    tol = COMPONENT_TOLERANCE * P
-    P_a = 0.0 if abs(P_a) <= tol else P_a
-    P_tr = 0.0 if P_tr <= tol else P_tr
-    bearing, axial, transverse = _modes(lug, material, P, P_a, P_tr)
-    name = result.name
+def lug_modes(lug: LugGeometry, material: PrintedMaterial) -> _LugModes:
+    """Every mode of a lug, made once (they do not depend on the load)."""
+    bearing, axial, transverse = _modes(lug, material)
+    return _LugModes(material, bearing, axial, transverse, _bending(lug, material))
+
+
+def tilt_moments(moment_Nmm: FloatArray, axis_xy: FloatArray | None
+                 ) -> tuple[FloatArray, FloatArray]:
+    """(about x, about y) [N·mm]: the pin's tilt moment about the lug's axis and across it.
+
+    ``moment_Nmm`` (..., 3) in global axes; ``axis_xy`` (..., 2) the lug's axis (``None`` or a
+    zero row: unknown, the whole tilt taken about both).
+    """
+    mx, my = moment_Nmm[..., 0], moment_Nmm[..., 1]
+    tilt = np.hypot(mx, my)
+    if axis_xy is None:
+        return tilt, tilt
+    ux, uy = axis_xy[..., 0], axis_xy[..., 1]
+    unknown = (ux == 0.0) & (uy == 0.0)
+    return (np.where(unknown, tilt, np.abs(mx * ux + my * uy)),
+            np.where(unknown, tilt, np.abs(-mx * uy + my * ux)))
+
+
+def _weakest(candidates: Sequence[_Resisted]) -> _Resisted:
+    """The first of the candidates with the least capacity as a load."""
+    return min(candidates, key=lambda r: r.capacity_N)
+
+
+def _oblique(lug: LugGeometry, load_case: str, bearing: _Resisted, axial: Sequence[_Resisted],
+             tear_out: _Resisted, P: FloatArray, P_a: FloatArray, P_tr: FloatArray
+             ) -> list[CheckRows]:
+    """The 1.6-power interaction where both components act and it lowers the factor by more than
+    INTERACTION_REPORT_FRACTION: one row with the pin pulling towards the lug's end (the axial
+    capacity the least of bearing, net tension and shear-out), one with it pushing into the part
+    (bearing alone), as their modes and required factors differ."""
+    rt = _weakest([bearing, tear_out])
+    L_a = np.abs(P_a)
     out = []
-    br_rec, br_N = bearing.record(ctx, lug, material, name)
-    out.append(br_rec)
-    comps: list[tuple[float, float, CheckRecord]] = []  # (load, capacity N, governing record)
-    for load, modes in ((abs(P_a), axial), (P_tr, transverse)):
-        if load <= 0.0:
-            continue
-        best = (br_N, br_rec)
-        for m in modes:
-            rec, cap_N = m.record(ctx, lug, material, name)
-            out.append(rec)
-            if cap_N < best[0]:
-                best = (cap_N, rec)
-        comps.append((load, best[0], best[1]))
-    if len(comps) == 2:
-        (La, Ca, ra), (Lt, Ct, rt) = comps
-        R_a, R_tr = La / Ca, Lt / Ct
+    for ra, side, pushing in ((_weakest([bearing, *axial]), P_a > 0.0, ""),
+                              (bearing, P_a < 0.0, " pushing into the part")):
+        R_a, R_tr = L_a / ra.capacity_N, P_tr / rt.capacity_N
         factor = interaction_factor(R_a, R_tr)
-        if 1.0 / factor > max(R_a, R_tr) * (1.0 + INTERACTION_REPORT_FRACTION):
-            worse = ra if R_a >= R_tr else rt
-            out.append(CheckRecord(
-                item=lug.item, kind="lug", mode="oblique load (1.6-power interaction)",
-                load_case=name, demand=P, capacity=P * factor, unit="N",
-                required_factor=max(ra.required_factor, rt.required_factor),
-                basis=(f"R_a^1.6 + R_tr^1.6 ≤ 1 (Air Force method: AFFDL Stress Analysis Manual "
-                       f"1986 ch. 9; NASA TM X-73305 vol. I §B); R_a = {La:.4g}/{Ca:.4g} N "
-                       f"({ra.mode}{' pushing into the part' if P_a < 0 else ''}), R_tr = "
-                       f"{Lt:.4g}/{Ct:.4g} N ({rt.mode}); capacity: the load in the same "
-                       f"direction that reaches the curve, P (R_a^1.6 + R_tr^1.6)^-0.625; "
-                       f"lug {lug.describe()}"),
-                suggestion=worse.suggestion))
-    for m in _bending(lug, material, force.moment_Nmm, axis):
-        out.append(m.record(ctx, lug, material, name)[0])
+        lowers = 1.0 / factor > np.maximum(R_a, R_tr) * (1.0 + INTERACTION_REPORT_FRACTION)
+        capacity = np.multiply(P, factor, out=np.full_like(P, np.inf),
+                               where=np.isfinite(factor))
+        basis = _Quote((
+            "R_a^1.6 + R_tr^1.6 ≤ 1 (Air Force method: AFFDL Stress Analysis Manual 1986 ch. 9; "
+            "NASA TM X-73305 vol. I §B); R_a = ",
+            f"/{ra.capacity_N:.4g} N ({ra.mode.name}{pushing}), R_tr = ",
+            f"/{rt.capacity_N:.4g} N ({rt.mode.name}); capacity: the load in the same direction "
+            f"that reaches the curve, P (R_a^1.6 + R_tr^1.6)^-0.625; lug {lug.describe()}"),
+            (L_a, P_tr))
+        out.append(CheckRows(
+            item=lug.item, kind="lug", mode="oblique load (1.6-power interaction)",
+            load_case=load_case, demand=P, capacity=capacity, unit="N",
+            required_factor=max(ra.required_factor, rt.required_factor), basis=basis,
+            suggestion=_Either(R_a >= R_tr, ra.suggestion, rt.suggestion),
+            applies=side & (P_tr > 0.0) & lowers))
     return out
 
 
-def checks(ctx: CheckContext) -> list[CheckRecord]:
-    """Every printed lug at every pin and driven joint in every load case."""
+def lug_checks(ctx: CheckContext, lug: LugGeometry, loads: LoadSet,
+               modes: _LugModes | None = None) -> list[CheckRows]:
+    """Every check of one lug in one load set (see the module docstring); ``modes`` are
+    :func:`lug_modes`, made here when not given."""
+    m = modes or lug_modes(lug, ctx.case.library.printed_material(lug.section.material))
+    force = next(f for f in joint_forces(ctx, loads, lug.joint) if f.part == lug.part.name)
+    axis = member_direction(ctx, loads, lug.part, lug.joint.node)
+    P = force.bearing_N
+    P_a, P_tr = split_load(force.force_N[:, :2], axis)
+    tol = COMPONENT_TOLERANCE * P
+    P_a = np.where(np.abs(P_a) <= tol, 0.0, P_a)
+    P_tr = np.where(P_tr <= tol, 0.0, P_tr)
+    name, item = loads.name, lug.item
+    bearing = m.bearing.resisted(ctx, lug, m.material, name)
+    axial = [a.resisted(ctx, lug, m.material, name) for a in m.axial]
+    tear_out = m.transverse.resisted(ctx, lug, m.material, name)
+    pulls, across = P_a > 0.0, P_tr > 0.0
+    out = [bearing.rows(item, name, P, None)]
+    out += [a.rows(item, name, np.where(pulls, P_a, 0.0), pulls) for a in axial]
+    out.append(tear_out.rows(item, name, P_tr, across))
+    out += _oblique(lug, name, bearing, axial, tear_out, P, P_a, P_tr)
+    about_x, about_y = tilt_moments(force.moment_Nmm, axis)
+    for b, M in zip(m.bending, (about_y, about_x), strict=True):
+        out.append(b.resisted(ctx, lug, m.material, name).rows(item, name, M, M > 0.0))
+    return out
+
+
+def checks(ctx: CheckContext) -> list[CheckRows]:
+    """Every printed lug at every pin and driven joint in every load set."""
     found, _ = lugs(ctx.case)
-    return [r for result in ctx.results for lug in found for r in lug_checks(ctx, lug, result)]
+    modes = [lug_modes(lug, ctx.case.library.printed_material(lug.section.material))
+             for lug in found]
+    return [row for loads in ctx.loads for lug, m in zip(found, modes, strict=True)
+            for row in lug_checks(ctx, lug, loads, m)]
 
 
 def warnings(ctx: CheckContext) -> list[str]:
@@ -579,6 +703,7 @@ __all__ = [
     "interaction_factor",
     "kt_with_clearance",
     "lug_checks",
+    "lug_modes",
     "lugs",
     "net_tension_kt",
     "net_tension_stress",
@@ -588,5 +713,6 @@ __all__ = [
     "solid_share",
     "split_load",
     "tension_strength",
+    "tilt_moments",
     "warnings",
 ]

@@ -16,7 +16,7 @@ from pathlib import Path
 
 from stiff.case import parse_case
 from stiff.check import run_check
-from stiff.checks.context import CheckContext
+from stiff.checks.context import CheckContext, LoadSet
 from stiff.loads import LoadCaseResult
 from stiff.materials import load_library
 
@@ -136,4 +136,9 @@ def solved(text: str) -> CheckContext:
 
 def load_case(ctx: CheckContext, name: str = "pull") -> LoadCaseResult:
     """One solved load case of a context."""
-    return next(r for r in ctx.results if r.name == name)
+    return next(r for r in ctx.results if isinstance(r, LoadCaseResult) and r.name == name)
+
+
+def load_set(ctx: CheckContext, name: str = "pull") -> LoadSet:
+    """One load set (B = 1) of a context."""
+    return next(s for s in ctx.loads if s.name == name)

@@ -32,10 +32,10 @@ import numpy as np
 import pytest
 
 from stiff.checks import lugs
-from stiff.checks.base import CheckRecord, governing
+from stiff.checks.base import CheckRecord, expand, governing
 from stiff.checks.context import joint_forces
 from stiff.infill import law
-from tests.verification.lug_cases import hanging_link, load_case, solved
+from tests.verification.lug_cases import hanging_link, load_set, solved
 
 ROOT = Path(__file__).resolve().parents[2]
 COS40 = math.cos(math.radians(40.0))
@@ -44,7 +44,7 @@ COS40 = math.cos(math.radians(40.0))
 def pull_records(text: str) -> dict[str, CheckRecord]:
     """The lug's records in the 'pull' case, by mode."""
     ctx = solved(text)
-    return {r.mode: r for r in lugs.checks(ctx) if r.load_case == "pull"}
+    return {r.mode: r for r in expand(lugs.checks(ctx)) if r.load_case == "pull"}
 
 
 # ---------------------------------------------------------------------------------------------
@@ -150,7 +150,7 @@ def test_case_records_follow_the_formulas() -> None:
     # the bending stress is 6M/(W t²) from the pin's tilt moment on the link
     ctx = solved(hanging_link())
     joint = ctx.case.joints[0]
-    force = next(f for f in joint_forces(ctx, load_case(ctx), joint) if f.part == "link")
+    force = next(f for f in joint_forces(ctx, load_set(ctx), joint) if f.part == "link")
     assert rec["out-of-plane bending"].demand == pytest.approx(
         6.0 * force.tilt_Nmm / (20.0 * 8.0**2), rel=1e-9)
     # flat PLA: bearing meets the compressive strength, net tension the strength along the
@@ -271,7 +271,7 @@ def test_lug_assumed_from_the_section() -> None:
     assert lug.assumed
     # t = section width 8, W = depth 20, e = W/2, D = pin + 2 × clearance
     assert (lug.thickness_mm, lug.width_mm, lug.edge_mm, lug.hole_mm) == (8.0, 20.0, 10.0, 5.0)
-    rec = {r.mode: r for r in lugs.checks(ctx) if r.load_case == "pull"}
+    rec = {r.mode: r for r in expand(lugs.checks(ctx)) if r.load_case == "pull"}
     assert "geometry assumed from the section" in rec["bearing"].basis
     assert any("geometry assumed from the section" in w for w in lugs.warnings(ctx))
 
@@ -300,7 +300,7 @@ def test_edge_width_wall_and_cleavage_warnings() -> None:
 def test_demo_case_checks_every_printed_lug() -> None:
     text = (ROOT / "cases" / "hopping_leg.toml").read_text()
     ctx = solved(text)
-    items = set(governing(lugs.checks(ctx)))
+    items = set(governing(expand(lugs.checks(ctx))))
     assert items == {"lug hip_block at hip", "lug knee_block at knee", "lug shin at knee",
                      "lug drive_crank at knee_drive", "lug drive_crank at crank_tip",
                      "lug shin at horn"}
