@@ -13,6 +13,7 @@ from stiff import CASES_DIR
 from stiff.case import parse_case
 from stiff.check import run_check
 from stiff.checks import sockets, tubes
+from stiff.checks.base import expand
 from stiff.checks.context import CheckContext
 from stiff.checks.sockets import DEFAULT_FRICTION
 from stiff.checks.spans import spans
@@ -39,7 +40,7 @@ def hopping() -> CheckContext:
 @pytest.mark.parametrize("name", ["five_bar", "hopping"])
 def test_every_tube_and_socket_is_checked(name: str, request: pytest.FixtureRequest) -> None:
     ctx: CheckContext = request.getfixturevalue(name)
-    records = tubes.checks(ctx) + sockets.checks(ctx)
+    records = expand(tubes.checks(ctx) + sockets.checks(ctx))
     tube_names = {p.name for p in ctx.case.parts if p.kind == "tube"}
     socket_names = {f"socket {j.name}" for j in ctx.case.joints if j.socket is not None}
     assert {r.item for r in records} == tube_names | socket_names
@@ -98,7 +99,7 @@ def test_a_socket_shorter_than_the_tube_is_warned_and_still_checked() -> None:
     ctx = _context(text)
     found = [w for w in sockets.warnings(ctx) if "less than the tube's diameter" in w]
     assert len(found) == 1 and "socket_a_top" in found[0]
-    short = [r for r in sockets.checks(ctx) if r.item == "socket socket_a_top"]
+    short = [r for r in expand(sockets.checks(ctx)) if r.item == "socket socket_a_top"]
     assert short and all(math.isfinite(r.safety_factor) or r.demand == 0 for r in short)
 
 
@@ -110,7 +111,7 @@ def test_a_section_with_no_wall_round_the_tube_is_refused() -> None:
         'section = { material = "PETG", width_mm = 5.0,')
     assert text != FIVE_BAR
     ctx = _context(text)
-    assert not [r for r in sockets.checks(ctx) if r.item == "socket socket_a_top"]
+    assert not [r for r in expand(sockets.checks(ctx)) if r.item == "socket socket_a_top"]
     assert any("leaves no wall" in w and "socket_a_top" in w for w in sockets.warnings(ctx))
 
 
@@ -126,13 +127,13 @@ def test_a_clamp_without_its_force_is_warned_and_not_checked_for_slip() -> None:
     ctx = _context(_clamped(""))
     assert any("without clamp_force_N" in w for w in sockets.warnings(ctx))
     assert any("a clamp on the pultruded tube thigh" in w for w in tubes.warnings(ctx))
-    records = [r for r in sockets.checks(ctx) if r.item == "socket thigh_top"]
+    records = [r for r in expand(sockets.checks(ctx)) if r.item == "socket thigh_top"]
     assert records and not any(r.mode == "clamp slip (friction)" for r in records)
 
 
 def test_a_clamp_with_its_force_is_checked_for_slip() -> None:
     ctx = _context(_clamped(", clamp_force_N = 400.0"))
-    slip = [r for r in sockets.checks(ctx) if r.mode == "clamp slip (friction)"]
+    slip = [r for r in expand(sockets.checks(ctx)) if r.mode == "clamp slip (friction)"]
     assert slip
     assert all(r.capacity == pytest.approx(DEFAULT_FRICTION * 400.0) for r in slip)
     assert all("default" in r.basis for r in slip)
