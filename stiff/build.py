@@ -21,6 +21,7 @@ stiffness). Body nodes are fully held.
 
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass
 
@@ -59,18 +60,26 @@ class Built:
     warnings: tuple[str, ...]
 
 
-def _section(case: Case, part: Part, s: Section, cache: dict[Section, PrintedSection]
-             ) -> PrintedSection:
-    if s not in cache:
-        material = case.library.printed_material(s.material)
-        try:
-            if s.shape == "round":
-                cache[s] = printed_round(material, s.width_mm, s.settings)
-            else:
-                cache[s] = printed_rectangle(material, s.width_mm, s.depth_mm, s.settings)
-        except ModelError as err:
-            raise CaseError(case.file, f"parts.{part.name}.section", str(err)) from None
-    return cache[s]
+#: Printed sections kept between builds: a sweep's variants and a map's poses reuse the same few
+#: sections many times (one takes ~50 ms to compute). Keyed by material and section, which are
+#: frozen values.
+SECTION_CACHE = 512
+
+
+@functools.lru_cache(maxsize=SECTION_CACHE)
+def printed_section(material: PrintedMaterial, s: Section) -> PrintedSection:
+    """The printed section of ``s`` in ``material`` (ModelError for an impossible one)."""
+    if s.shape == "round":
+        return printed_round(material, s.width_mm, s.settings)
+    return printed_rectangle(material, s.width_mm, s.depth_mm, s.settings)
+
+
+def _section(case: Case, part: Part, s: Section) -> PrintedSection:
+    material = case.library.printed_material(s.material)
+    try:
+        return printed_section(material, s)
+    except ModelError as err:
+        raise CaseError(case.file, f"parts.{part.name}.section", str(err)) from None
 
 
 Member = tuple[Part, tuple[str, str], BeamSection, "PrintedSection | None"]
@@ -78,7 +87,6 @@ Member = tuple[Part, tuple[str, str], BeamSection, "PrintedSection | None"]
 
 def part_sections(case: Case) -> list[Member]:
     """Every member of every part with its beam section (and printed section, if printed)."""
-    cache: dict[Section, PrintedSection] = {}
     out: list[Member] = []
     for part in case.parts:
         if part.kind == "tube":
@@ -91,7 +99,7 @@ def part_sections(case: Case) -> list[Member]:
             out.extend((part, seg, bs, None) for seg in part.segments)
         else:
             for seg, sec in zip(part.segments, part.sections, strict=True):
-                ps = _section(case, part, sec, cache)
+                ps = _section(case, part, sec)
                 out.append((part, seg, ps.beam, ps))
     return out
 

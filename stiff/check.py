@@ -63,8 +63,8 @@ class CheckResult:
         return worst_first(governing(self.checks).values())
 
 
-def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
-    """The pose and model the case lands in, when it names a landing pose of its own."""
+def landing_pose(case: Case, link: Linkage) -> Pose | None:
+    """The pose the case lands in, when it names a landing pose of its own."""
     if case.loads.landing_angles_rad is None:
         return None
     asked = dict(case.loads.landing_angles_rad)
@@ -80,7 +80,12 @@ def _landing_pose(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
     except PoseError as err:
         raise CaseError(case.file, "loads.landing_angles_deg",
                         f"the leg cannot reach this landing pose: {err}") from None
-    return pose, build(case, pose)
+    return pose
+
+
+def _landing_at(case: Case, link: Linkage) -> tuple[Pose, Built] | None:
+    pose = landing_pose(case, link)
+    return None if pose is None else (pose, build(case, pose))
 
 
 def _warnings(results: tuple[LoadCaseResult, ...], land: LandingResult | None) -> list[str]:
@@ -115,7 +120,7 @@ def _run_check(case: Case) -> CheckResult:
     built = build(case, pose)
     foot_index = link.node_names.index(case.foot)
     jacobian = foot_jacobian(link, pose, foot_index)
-    landing_at = _landing_pose(case, link)
+    landing_at = _landing_at(case, link)
     land_pose, land_built = landing_at or (pose, built)
     land_jac = jacobian if landing_at is None else foot_jacobian(link, land_pose, foot_index)
     land = landing(case, land_built, land_pose, land_jac)
