@@ -98,7 +98,7 @@ from typing import Literal, TypeVar
 import numpy as np
 
 from stiff.case_model import BODY, Case, Joint, Part, Section
-from stiff.checks.allowables import printed_allowable
+from stiff.checks.allowables import Duty, printed_allowable
 from stiff.checks.base import BoolArray, CheckRows
 from stiff.checks.context import (
     CheckContext,
@@ -423,13 +423,12 @@ class _Mode:
     stress: Callable[[FloatArray], FloatArray]  # load component [N; bending N·mm] -> [MPa]
     formula: tuple[str, str]  # the formula's text before and after the quoted load
 
-    def resisted(self, ctx: CheckContext, lug: LugGeometry, material: PrintedMaterial,
-                 load_case: str) -> _Resisted:
-        """The mode in one load case: its allowable chain, made once."""
+    def resisted(self, ctx: CheckContext, lug_text: str, material: PrintedMaterial, d: Duty
+                 ) -> _Resisted:
+        """The mode under one duty: its allowable chain."""
         across = self.strength.across
-        allowable = printed_allowable(self.strength.mean, material, across,
-                                      ctx.duty(load_case), ctx.samples)
-        steps = ["", f"lug {lug.describe()}", allowable.provenance]
+        allowable = printed_allowable(self.strength.mean, material, across, d, ctx.samples)
+        steps = ["", lug_text, allowable.provenance]
         if self.share_step:
             steps.append(self.share_step)
         return _Resisted(
@@ -469,11 +468,40 @@ class _Resisted:
 class _LugModes:
     """Every mode of one lug: bearing, the axial ones, side tear-out, bending along and across."""
 
+    lug: LugGeometry
     material: PrintedMaterial
     bearing: _Mode
     axial: tuple[_Mode, _Mode]
     transverse: _Mode
     bending: tuple[_Mode, _Mode]
+
+    def resisted(self, ctx: CheckContext, d: Duty) -> _LugResistance:
+        """Every mode's allowable under one duty (the same for every load case of that duty)."""
+        text = f"lug {self.lug.describe()}"
+
+        def one(m: _Mode) -> _Resisted:
+            return m.resisted(ctx, text, self.material, d)
+
+        bearing = one(self.bearing)
+        axial = (one(self.axial[0]), one(self.axial[1]))
+        tear_out = one(self.transverse)
+        return _LugResistance(bearing, axial, tear_out, (one(self.bending[0]),
+                                                         one(self.bending[1])),
+                              _weakest([bearing, *axial]), _weakest([bearing, tear_out]), text)
+
+
+@dataclass(frozen=True)
+class _LugResistance:
+    """Every mode of one lug under one duty, and the least capacities [N] along and across it
+    (the first of the least: bearing, then net tension, then shear-out or side tear-out)."""
+
+    bearing: _Resisted
+    axial: tuple[_Resisted, _Resisted]
+    tear_out: _Resisted
+    bending: tuple[_Resisted, _Resisted]
+    pulling: _Resisted  # least of bearing, net tension, shear-out
+    across: _Resisted  # least of bearing, side tear-out
+    lug_text: str
 
 
 def _named(base: str, s: PlaneStrength) -> str:
@@ -562,7 +590,7 @@ def _bending(lug: LugGeometry, material: PrintedMaterial) -> tuple[_Mode, _Mode]
 def lug_modes(lug: LugGeometry, material: PrintedMaterial) -> _LugModes:
     """Every mode of a lug, made once (they do not depend on the load)."""
     bearing, axial, transverse = _modes(lug, material)
-    return _LugModes(material, bearing, axial, transverse, _bending(lug, material))
+    return _LugModes(lug, material, bearing, axial, transverse, _bending(lug, material))
 
 
 def tilt_moments(moment_Nmm: FloatArray, axis_xy: FloatArray | None
@@ -587,18 +615,17 @@ def _weakest(candidates: Sequence[_Resisted]) -> _Resisted:
     return min(candidates, key=lambda r: r.capacity_N)
 
 
-def _oblique(lug: LugGeometry, load_case: str, bearing: _Resisted, axial: Sequence[_Resisted],
-             tear_out: _Resisted, P: FloatArray, P_a: FloatArray, P_tr: FloatArray
-             ) -> list[CheckRows]:
+def _oblique(item: str, load_case: str, r: _LugResistance, P: FloatArray, P_a: FloatArray,
+             P_tr: FloatArray) -> list[CheckRows]:
     """The 1.6-power interaction where both components act and it lowers the factor by more than
     INTERACTION_REPORT_FRACTION: one row with the pin pulling towards the lug's end (the axial
     capacity the least of bearing, net tension and shear-out), one with it pushing into the part
-    (bearing alone), as their modes and required factors differ."""
-    rt = _weakest([bearing, tear_out])
+    (bearing alone), as their modes and required factors may differ."""
+    rt = r.across
     L_a = np.abs(P_a)
     out = []
-    for ra, side, pushing in ((_weakest([bearing, *axial]), P_a > 0.0, ""),
-                              (bearing, P_a < 0.0, " pushing into the part")):
+    for ra, side, pushing in ((r.pulling, P_a > 0.0, ""),
+                              (r.bearing, P_a < 0.0, " pushing into the part")):
         R_a, R_tr = L_a / ra.capacity_N, P_tr / rt.capacity_N
         factor = interaction_factor(R_a, R_tr)
         lowers = 1.0 / factor > np.maximum(R_a, R_tr) * (1.0 + INTERACTION_REPORT_FRACTION)
@@ -609,10 +636,10 @@ def _oblique(lug: LugGeometry, load_case: str, bearing: _Resisted, axial: Sequen
             "NASA TM X-73305 vol. I §B); R_a = ",
             f"/{ra.capacity_N:.4g} N ({ra.mode.name}{pushing}), R_tr = ",
             f"/{rt.capacity_N:.4g} N ({rt.mode.name}); capacity: the load in the same direction "
-            f"that reaches the curve, P (R_a^1.6 + R_tr^1.6)^-0.625; lug {lug.describe()}"),
+            f"that reaches the curve, P (R_a^1.6 + R_tr^1.6)^-0.625; {r.lug_text}"),
             (L_a, P_tr))
         out.append(CheckRows(
-            item=lug.item, kind="lug", mode="oblique load (1.6-power interaction)",
+            item=item, kind="lug", mode="oblique load (1.6-power interaction)",
             load_case=load_case, demand=P, capacity=capacity, unit="N",
             required_factor=max(ra.required_factor, rt.required_factor), basis=basis,
             suggestion=_Either(R_a >= R_tr, ra.suggestion, rt.suggestion),
@@ -621,10 +648,11 @@ def _oblique(lug: LugGeometry, load_case: str, bearing: _Resisted, axial: Sequen
 
 
 def lug_checks(ctx: CheckContext, lug: LugGeometry, loads: LoadSet,
-               modes: _LugModes | None = None) -> list[CheckRows]:
-    """Every check of one lug in one load set (see the module docstring); ``modes`` are
-    :func:`lug_modes`, made here when not given."""
-    m = modes or lug_modes(lug, ctx.case.library.printed_material(lug.section.material))
+               resisted: _LugResistance | None = None) -> list[CheckRows]:
+    """Every check of one lug in one load set (see the module docstring); ``resisted``: its
+    modes under the load set's duty (made here when not given)."""
+    r = resisted or lug_modes(lug, ctx.case.library.printed_material(
+        lug.section.material)).resisted(ctx, ctx.duty(loads.name))
     force = next(f for f in joint_forces(ctx, loads, lug.joint) if f.part == lug.part.name)
     axis = member_direction(ctx, loads, lug.part, lug.joint.node)
     P = force.bearing_N
@@ -633,27 +661,28 @@ def lug_checks(ctx: CheckContext, lug: LugGeometry, loads: LoadSet,
     P_a = np.where(np.abs(P_a) <= tol, 0.0, P_a)
     P_tr = np.where(P_tr <= tol, 0.0, P_tr)
     name, item = loads.name, lug.item
-    bearing = m.bearing.resisted(ctx, lug, m.material, name)
-    axial = [a.resisted(ctx, lug, m.material, name) for a in m.axial]
-    tear_out = m.transverse.resisted(ctx, lug, m.material, name)
-    pulls, across = P_a > 0.0, P_tr > 0.0
-    out = [bearing.rows(item, name, P, None)]
-    out += [a.rows(item, name, np.where(pulls, P_a, 0.0), pulls) for a in axial]
-    out.append(tear_out.rows(item, name, P_tr, across))
-    out += _oblique(lug, name, bearing, axial, tear_out, P, P_a, P_tr)
+    pulls = P_a > 0.0
+    out = [r.bearing.rows(item, name, P, None)]
+    out += [a.rows(item, name, np.where(pulls, P_a, 0.0), pulls) for a in r.axial]
+    out.append(r.tear_out.rows(item, name, P_tr, P_tr > 0.0))
+    out += _oblique(item, name, r, P, P_a, P_tr)
     about_x, about_y = tilt_moments(force.moment_Nmm, axis)
-    for b, M in zip(m.bending, (about_y, about_x), strict=True):
-        out.append(b.resisted(ctx, lug, m.material, name).rows(item, name, M, M > 0.0))
+    out += [b.rows(item, name, M, M > 0.0)
+            for b, M in zip(r.bending, (about_y, about_x), strict=True)]
     return out
 
 
 def checks(ctx: CheckContext) -> list[CheckRows]:
-    """Every printed lug at every pin and driven joint in every load set."""
+    """Every printed lug at every pin and driven joint in every load set; each lug's modes made
+    once, their allowables once per duty."""
     found, _ = lugs(ctx.case)
     modes = [lug_modes(lug, ctx.case.library.printed_material(lug.section.material))
              for lug in found]
-    return [row for loads in ctx.loads for lug, m in zip(found, modes, strict=True)
-            for row in lug_checks(ctx, lug, loads, m)]
+    duties = {d: [m.resisted(ctx, d) for m in modes]
+              for d in {ctx.duty(loads.name) for loads in ctx.loads}}
+    return [row for loads in ctx.loads
+            for lug, r in zip(found, duties[ctx.duty(loads.name)], strict=True)
+            for row in lug_checks(ctx, lug, loads, r)]
 
 
 def warnings(ctx: CheckContext) -> list[str]:
