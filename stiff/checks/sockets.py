@@ -40,20 +40,20 @@ no record there (its ``applies`` mask).
 
 from __future__ import annotations
 
-from collections.abc import Callable
+from collections.abc import Callable, Iterable, Mapping, Sequence
 from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
 
 from stiff.case_model import Joint, Part, Socket
-from stiff.checks.allowables import printed_allowable
+from stiff.checks.allowables import Duty, printed_allowable
 from stiff.checks.base import CheckRows
 from stiff.checks.context import CheckContext, LoadSet, member_lengths
 from stiff.checks.tubes import modulus, tube_material
 from stiff.materials import AdhesiveMaterial, TubeMaterial
 from stiff.printed_sections import PrintedSection
-from stiff.strength import across_layers_strength, member_strength
+from stiff.strength import Allowable, across_layers_strength, member_strength
 
 FloatArray = npt.NDArray[np.float64]
 
@@ -229,8 +229,8 @@ def sites(ctx: CheckContext) -> list[SocketSite]:
 
 @dataclass(frozen=True)
 class SocketForces:
-    """The tube's forces at the socket's mouth at B poses: magnitudes [N], [N·mm], (B,) each,
-    local tube axes.
+    """The tube's forces at the socket's mouth at B poses: magnitudes [N], [N·mm], local tube
+    axes; (B,) each for one socket, (B, n) for n sockets at once.
 
     ``shear_y_N`` and ``moment_z_Nmm`` act in the linkage plane, ``shear_z_N`` and
     ``moment_y_Nmm`` out of it.
@@ -243,6 +243,12 @@ class SocketForces:
     moment_z_Nmm: FloatArray
     torque_Nmm: FloatArray
 
+    def of(self, k: int) -> SocketForces:
+        """Socket k's forces, (B,) each, from the forces of n sockets."""
+        return SocketForces(self.axial_N[:, k], self.shear_y_N[:, k], self.shear_z_N[:, k],
+                            self.moment_y_Nmm[:, k], self.moment_z_Nmm[:, k],
+                            self.torque_Nmm[:, k])
+
 
 #: Columns of a member's end forces (``LoadSet.beam_forces``, 6 at end 1 then 6 at end 2) that
 #: the socket reads, as ``stiff.checks.context.MemberForces`` reads them: the axial force and
@@ -252,15 +258,21 @@ _COLUMNS = np.array([6, 1, 2, 4, 5, 9])
 _AT_END = np.array([0, 1, 1, 1, 1, 0])
 
 
+def forces_at(found: Sequence[SocketSite], loads: LoadSet) -> SocketForces:
+    """The tube members' end forces at each socket's node in every pose of a load set, (B, n)
+    (the largest of each, if several members end there; every site needs a tube member)."""
+    ends = np.array([e for site in found for e in site.tube_ends], np.intp).reshape(-1, 2)
+    starts = np.cumsum([0] + [len(site.tube_ends) for site in found[:-1]])
+    columns = _COLUMNS[None, :] + 6 * _AT_END[None, :] * ends[:, 1:]  # (n_ends, 6)
+    f = np.abs(loads.beam_forces[:, ends[:, :1], columns])  # (B, n_ends, 6)
+    worst = np.maximum.reduceat(f, starts, axis=1) if len(found) else f  # (B, n, 6)
+    return SocketForces(*(worst[:, :, c] for c in range(6)))
+
+
 def socket_forces(site: SocketSite, loads: LoadSet) -> SocketForces | None:
-    """The tube members' end forces at the socket's node in every pose of a load set (the
-    largest of each, if several members end there); None without a tube member there."""
-    if not site.tube_ends:
-        return None
-    members, ends = np.array(site.tube_ends).T
-    columns = _COLUMNS[None, :] + 6 * _AT_END[None, :] * ends[:, None]  # (n_ends, 6)
-    f = np.abs(loads.beam_forces[:, members[:, None], columns]).max(axis=1)  # (B, 6)
-    return SocketForces(*(f[:, k] for k in range(6)))
+    """The tube members' end forces at the socket's node in every pose of a load set, (B,)
+    (the largest of each, if several members end there); None without a tube member there."""
+    return forces_at([site], loads).of(0) if site.tube_ends else None
 
 
 # ---------------------------------------------------------------------------------------------
@@ -307,6 +319,65 @@ def bond_lag(ctx: CheckContext, site: SocketSite, adhesive: AdhesiveMaterial) ->
     return BondLag(k_axial, k_torsion, omega, text)
 
 
+@dataclass(frozen=True)
+class Bond:
+    """What a bonded socket's checks take from the case and its tables: the same in every load
+    set and pose."""
+
+    lag: BondLag
+    strength_MPa: float  # the adhesive's lap-shear strength
+    strength_text: str  # that strength and its source
+    hint: str  # what lowers the peak
+    wall_mean: Allowable  # the printed wall's mean interlayer shear strength
+
+
+def bond(ctx: CheckContext, site: SocketSite) -> Bond:
+    """The load-independent figures of a bonded socket."""
+    assert site.socket.adhesive is not None
+    adhesive = ctx.case.library.adhesive(site.socket.adhesive)
+    lag = bond_lag(ctx, site, adhesive)
+    strength = adhesive.lap_shear_MPa
+    text = (f"lap_shear_MPa = {strength:g} MPa: {adhesive.provenance_of('lap_shear_MPa')}; "
+            "the table's value as it stands (typical, no B-basis or knock-downs: no "
+            "scatter or environment data for adhesives)")
+    hint = (f"a thicker bondline or a stiffer, thicker socket wall lowers the peak; "
+            f"engagement beyond about 3/ω = {3.0 / lag.omega_per_mm:.3g} mm adds little")
+    wall = across_layers_strength(site.printed.material, shear=True)
+    return Bond(lag, strength, text, hint, wall)
+
+
+@dataclass(frozen=True)
+class SocketPlan:
+    """A socket with everything its checks need that does not depend on the load: its bond
+    (bonded sockets), and each printed allowable for each duty of the context's load sets."""
+
+    site: SocketSite
+    bond: Bond | None
+    wall: Mapping[Duty, Allowable]  # bonded: the printed wall's interlayer shear
+    pry: tuple[Mapping[Duty, Allowable], Mapping[Duty, Allowable]]  # in and out of the plane
+
+    @property
+    def across(self) -> tuple[bool, bool]:
+        """Whether the pry pressure in the plane, and out of it, acts across the layers."""
+        build = self.site.printed.settings.build
+        return build == "on_edge", build == "flat"
+
+
+def plan(ctx: CheckContext, site: SocketSite, duties: Iterable[Duty]) -> SocketPlan:
+    """The plan of one socket for the given duties."""
+    material = site.printed.material
+    held = set(duties)
+    b = bond(ctx, site) if site.socket.fixing == "bonded" else None
+    wall = ({} if b is None else
+            {d: printed_allowable(b.wall_mean, material, True, d, ctx.samples) for d in held})
+    mean = member_strength(material, site.printed.settings.build, "compression")
+    in_plane, out_of_plane = (
+        {d: printed_allowable(mean, material, across, d, ctx.samples) for d in held}
+        for across in (site.printed.settings.build == "on_edge",
+                       site.printed.settings.build == "flat"))
+    return SocketPlan(site, b, wall, (in_plane, out_of_plane))
+
+
 def _rows(site: SocketSite, loads: LoadSet, mode: str, demand: FloatArray,
           capacity: float, unit: str, factor: float, basis: str | Callable[[int], str],
           suggestion: str) -> CheckRows:
@@ -324,45 +395,30 @@ def _average_text(f: SocketForces, d: float, L: float) -> Callable[[int], str]:
     return text
 
 
-def _adhesive(ctx: CheckContext, site: SocketSite) -> AdhesiveMaterial:
-    """The adhesive of a bonded socket."""
-    assert site.socket.adhesive is not None
-    return ctx.case.library.adhesive(site.socket.adhesive)
-
-
-def _bonded(ctx: CheckContext, site: SocketSite, lag: BondLag, loads: LoadSet,
-            f: SocketForces) -> list[CheckRows]:
-    s = site.socket
-    adhesive = _adhesive(ctx, site)
-    d, L = site.od_mm, s.engagement_mm
+def _bonded(ctx: CheckContext, p: SocketPlan, b: Bond, loads: LoadSet, f: SocketForces
+            ) -> list[CheckRows]:
+    site = p.site
+    d, L = site.od_mm, site.socket.engagement_mm
     tau_axial = average_bond_shear(f.axial_N, d, L)
     tau_torsion = torsion_bond_shear(f.torque_Nmm, d, L)
     tau_avg = np.hypot(tau_axial, tau_torsion)
     # the peak factors are ≥ 1: the peak is zero exactly where the average is
-    tau_peak = np.hypot(lag.axial_factor * tau_axial, lag.torsion_factor * tau_torsion)
-    strength = adhesive.lap_shear_MPa
+    tau_peak = np.hypot(b.lag.axial_factor * tau_axial, b.lag.torsion_factor * tau_torsion)
     average = _average_text(f, d, L)
-    capacity = (f"lap_shear_MPa = {strength:g} MPa: {adhesive.provenance_of('lap_shear_MPa')}; "
-                "the table's value as it stands (typical, no B-basis or knock-downs: no "
-                "scatter or environment data for adhesives)")
-    peak_tail = (f"; {lag.text}; {capacity} (conservative: a lap-shear strength is itself an "
+    capacity = b.strength_text
+    peak_tail = (f"; {b.lag.text}; {capacity} (conservative: a lap-shear strength is itself an "
                  "average at failure)")
     factor = ctx.required("adhesive")
-    effective = 3.0 / lag.omega_per_mm
-    lag_hint = (f"a thicker bondline or a stiffer, thicker socket wall lowers the peak; "
-                f"engagement beyond about 3/ω = {effective:.3g} mm adds little")
-    ps = site.printed
-    wall_mean = across_layers_strength(ps.material, shear=True)
-    wall = printed_allowable(wall_mean, ps.material, True, ctx.duty(loads.name), ctx.samples)
-    wall_basis = (f"the bond's peak shear ({lag.text}) on the printed bore, which meets the "
+    wall = p.wall[ctx.duty(loads.name)]
+    wall_basis = (f"the bond's peak shear ({b.lag.text}) on the printed bore, which meets the "
                   f"layer planes; {wall.provenance}")
     return [
-        _rows(site, loads, "adhesive shear, average", tau_avg, strength, "MPa", factor,
+        _rows(site, loads, "adhesive shear, average", tau_avg, b.strength_MPa, "MPa", factor,
               lambda i: f"{average(i)}; {capacity}", "a longer engagement or a larger tube"),
-        _rows(site, loads, "adhesive shear, Volkersen peak", tau_peak, strength, "MPa", factor,
-              lambda i: average(i) + peak_tail, lag_hint),
+        _rows(site, loads, "adhesive shear, Volkersen peak", tau_peak, b.strength_MPa, "MPa",
+              factor, lambda i: average(i) + peak_tail, b.hint),
         _rows(site, loads, "printed wall shear at the bond (across the layers)", tau_peak,
-              wall.value_MPa, "MPa", ctx.required("across_layers"), wall_basis, lag_hint),
+              wall.value_MPa, "MPa", ctx.required("across_layers"), wall_basis, b.hint),
     ]
 
 
@@ -399,18 +455,17 @@ def _pry_text(V: FloatArray, M: FloatArray, tail: str) -> Callable[[int], str]:
     return text
 
 
-def _pry(ctx: CheckContext, site: SocketSite, loads: LoadSet, f: SocketForces
+def _pry(ctx: CheckContext, p: SocketPlan, loads: LoadSet, f: SocketForces
          ) -> list[CheckRows]:
-    ps = site.printed
+    site = p.site
     d, L = site.od_mm, site.socket.engagement_mm
-    build = ps.settings.build
-    mean = member_strength(ps.material, build, "compression")
+    build = site.printed.settings.build
+    duty = ctx.duty(loads.name)
     out = []
-    planes = (("in the linkage plane", f.shear_y_N, f.moment_z_Nmm, build == "on_edge"),
-              ("out of the plane", f.shear_z_N, f.moment_y_Nmm, build == "flat"))
-    for where, V, M, across in planes:
-        allowable = printed_allowable(mean, ps.material, across, ctx.duty(loads.name),
-                                      ctx.samples)
+    planes = (("in the linkage plane", f.shear_y_N, f.moment_z_Nmm),
+              ("out of the plane", f.shear_z_N, f.moment_y_Nmm))
+    for (where, V, M), across, allowables in zip(planes, p.across, p.pry, strict=True):
+        allowable = allowables[duty]
         layers = " (across the layers)" if across else ""
         tail = (f"d = {d:g} mm, L = {L:g} mm; {site.socket.printed} printed {build}, "
                 f"compressive strength as the bearing strength; {allowable.provenance}")
@@ -424,19 +479,18 @@ def _pry(ctx: CheckContext, site: SocketSite, loads: LoadSet, f: SocketForces
 
 def checks(ctx: CheckContext) -> list[CheckRows]:
     """Every socket in every load set: bond or clamp, and the pry on the printed wall."""
-    found = [s for s in sites(ctx) if s.tube_ends and s.wall_mm > 0.0]
-    lags = {s.name: bond_lag(ctx, s, _adhesive(ctx, s))
-            for s in found if s.socket.fixing == "bonded"}
+    duties = {ctx.duty(s.name) for s in ctx.loads}
+    plans = [plan(ctx, s, duties) for s in sites(ctx) if s.tube_ends and s.wall_mm > 0.0]
     out: list[CheckRows] = []
     for loads in ctx.loads:
-        for site in found:
-            f = socket_forces(site, loads)
-            assert f is not None
-            if site.socket.fixing == "bonded":
-                out += _bonded(ctx, site, lags[site.name], loads, f)
+        every = forces_at([p.site for p in plans], loads)
+        for k, p in enumerate(plans):
+            f = every.of(k)
+            if p.bond is not None:
+                out += _bonded(ctx, p, p.bond, loads, f)
             else:
-                out += _clamped(ctx, site, loads, f)
-            out += _pry(ctx, site, loads, f)
+                out += _clamped(ctx, p.site, loads, f)
+            out += _pry(ctx, p, loads, f)
     return out
 
 
