@@ -311,6 +311,7 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     ordered = tuple(sets[lc.name] for lc in template)
     rows = check_rows(CheckContext(case, built, ordered))
     C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
+    C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,
                       landings=tuple(landings) if landings else None,
                       load_case_names=tuple(lc.name for lc in template), rows=rows)

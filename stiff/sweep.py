@@ -38,9 +38,18 @@ from typing import Literal
 
 import numpy as np
 
+from stiff.batched import (
+    Checked,
+    Geometry,
+    case_geometry,
+    check_variant,
+    geometry_key,
+    lowest_check,
+    not_met,
+)
 from stiff.build import Built
 from stiff.case_model import Case
-from stiff.check import CheckResult, run_check
+from stiff.check import CheckResult
 from stiff.errors import StiffError
 from stiff.pool import WORKERS, map_items
 from stiff.sweep_spec import Value, Variable, apply_values
@@ -135,14 +144,43 @@ def _failed_row(index: int, values: tuple[Value, ...], why: str) -> VariantRow:
                       False, (), error=why)
 
 
+def row_from_checked(index: int, values: tuple[Value, ...], checked: Checked,
+                     rate_mm3_per_s: float) -> VariantRow:
+    """A variant's row from its batched check (compliance in the case's own pose, factors over
+    every pose checked); ``rate_mm3_per_s`` [mm³/s]."""
+    pc = checked.checks
+    amount = amounts(pc.case, checked.built)
+    C = pc.compliance_mm_per_N[0]
+    low, low_check = lowest_check(pc)
+    rows = pc.rows
+    worst = max((float(r.utilisations.max()) for r in rows if r.size), default=0.0)
+    met = checked.play_met and all(bool(np.all(r.safety_factors >= r.required_factor))
+                                   for r in rows)
+    missing = not_met(rows) + ([] if checked.play_met else ["a play target"])
+    return VariantRow(
+        index=index, values=values, mass_g=amount.mass_g,
+        printed_volume_cm3=amount.printed_volume_cm3,
+        extruded_volume_cm3=amount.extruded_volume_cm3,
+        print_time_min=amount.extruded_volume_cm3 / CM3_PER_MM3 / rate_mm3_per_s / 60.0,
+        vertical_mm_per_N=float(C[1, 1]),
+        principal_mm_per_N=float(np.linalg.eigvalsh(C)[-1]),
+        lateral_mm_per_N=float(C[2, 2]), min_factor=low, min_factor_check=low_check,
+        worst_utilisation=worst, all_met=met, not_met=tuple(missing))
+
+
 def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tuple[Value, ...],
-             rate_mm3_per_s: float) -> VariantRow:
-    """One variant through `stiff check`; a StiffError becomes a row with its ``error``."""
+             rate_mm3_per_s: float, geometry: Geometry | None = None) -> VariantRow:
+    """One variant checked through the batched path (``stiff.batched``), in the poses of
+    ``geometry`` when its linkage is the base case's (else in its own pose); a StiffError
+    becomes a row with its ``error``."""
     try:
-        result = run_check(apply_values(case, variables, values))
+        variant = apply_values(case, variables, values)
+        same = geometry is not None and geometry_key(variant) == geometry_key(case)
+        geo = geometry if same and geometry is not None else case_geometry(variant)
+        checked = check_variant(variant, geo)
     except StiffError as err:
         return _failed_row(index, values, str(err).replace("\n", " "))
-    return row_from_result(index, values, result, rate_mm3_per_s)
+    return row_from_checked(index, values, checked, rate_mm3_per_s)
 
 
 def variant_values(variables: tuple[Variable, ...]) -> list[tuple[Value, ...]]:
@@ -153,7 +191,8 @@ def variant_values(variables: tuple[Variable, ...]) -> list[tuple[Value, ...]]:
 def run_sweep(case: Case, variables: tuple[Variable, ...],
               rate_mm3_per_s: float = DEFAULT_RATE_MM3_PER_S,
               progress: Callable[[int], None] | None = None,
-              workers: int = WORKERS) -> tuple[VariantRow, ...]:
+              workers: int = WORKERS,
+              poses: Sequence[Sequence[float]] = ()) -> tuple[VariantRow, ...]:
     """Every variant of the full factorial, in order.
 
     Parameters
@@ -163,15 +202,22 @@ def run_sweep(case: Case, variables: tuple[Variable, ...],
     rate_mm3_per_s : volumetric print rate for the print-time estimate [mm³/s]
     progress : called with the number of variants just finished (for a progress bar)
     workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` variants
+    poses : more poses (actuator angles [rad], in the case's actuator order) every variant is
+        checked in besides its own; its factors are then the lowest over all of them
     """
     combos = list(enumerate(variant_values(variables)))
-    job = partial(_evaluate_item, case, variables, rate_mm3_per_s)
+    try:
+        geometry: Geometry | None = case_geometry(case, poses)
+    except StiffError:
+        geometry = None  # each variant then says why in its row
+    job = partial(_evaluate_item, case, variables, rate_mm3_per_s, geometry)
     return tuple(map_items(job, combos, workers, progress))
 
 
 def _evaluate_item(case: Case, variables: tuple[Variable, ...], rate_mm3_per_s: float,
-                   item: tuple[int, tuple[Value, ...]]) -> VariantRow:
-    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s)
+                   geometry: Geometry | None, item: tuple[int, tuple[Value, ...]]
+                   ) -> VariantRow:
+    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s, geometry)
 
 
 def pareto_front(rows: Sequence[VariantRow]) -> tuple[int, ...]:

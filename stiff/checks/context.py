@@ -34,6 +34,41 @@ def _rows(a: npt.ArrayLike, *tail: int) -> FloatArray:
     return arr.reshape(-1, *tail) if arr.size else arr.reshape(1, *tail)
 
 
+#: Element forces below this fraction of the largest force (or moment) of their load case are
+#: round-off of the solve, not load: they are set to zero, so that no check is made of noise
+#: (a planar linkage pushed sideways has in-plane forces of ~1e-11 of the load) and the same
+#: checks are made whether poses are solved one by one or together.
+ROUND_OFF = 1e-9
+FORCE_COLUMNS = {6: (0, 1, 2), 12: (0, 1, 2, 6, 7, 8)}  # the rest are moments [N·mm]
+
+
+def _split(a: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """(forces, moments) columns of connector (6) or member-end (12) force arrays."""
+    cols = np.zeros(a.shape[-1], bool)
+    cols[list(FORCE_COLUMNS[a.shape[-1]])] = True
+    return a[..., cols], a[..., ~cols]
+
+
+def quiet(connector: FloatArray, beam: FloatArray) -> tuple[FloatArray, FloatArray]:
+    """Connector (B, nc, 6) and member-end (B, nb, 12) forces with round-off set to zero:
+    entries below :data:`ROUND_OFF` of the largest force or moment of their pose."""
+    parts = [_split(connector), _split(beam)]
+    out = []
+    for which in (0, 1):  # forces, moments
+        scale = np.zeros(connector.shape[0])
+        for p in parts:
+            if p[which].size:
+                scale = np.maximum(scale, np.abs(p[which]).reshape(len(scale), -1).max(axis=1))
+        out.append(ROUND_OFF * scale)
+    cleaned = []
+    for a in (connector, beam):
+        cols = np.zeros(a.shape[-1], bool)
+        cols[list(FORCE_COLUMNS[a.shape[-1]])] = True
+        floor = np.where(cols, out[0][:, None, None], out[1][:, None, None])
+        cleaned.append(np.where(np.abs(a) < floor, 0.0, a))
+    return cleaned[0], cleaned[1]
+
+
 @dataclass(frozen=True)
 class LoadSet:
     """One load case solved at B poses (or variants) of the same model layout.
@@ -59,6 +94,11 @@ class LoadSet:
     spring_force_N: FloatArray  # (B, n_springs)
     spring_length_mm: FloatArray  # (B, n_springs)
     spring_max_mm: tuple[float | None, ...]
+
+    def __post_init__(self) -> None:
+        connector, beam = quiet(self.connector_forces, self.beam_forces)
+        object.__setattr__(self, "connector_forces", connector)
+        object.__setattr__(self, "beam_forces", beam)
 
     @property
     def size(self) -> int:

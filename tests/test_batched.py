@@ -1,0 +1,87 @@
+"""The batched path (stiff.pose_batch, stiff.batched) gives `stiff check`'s numbers.
+
+Reference: `stiff check` itself (stiff.check.run_check), one pose at a time, whose load cases and
+checks are verified against published sources in tests/verification/. Here the batched solves
+and the checks over arrays of poses must reproduce it record by record, to round-off.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from stiff import CASES_DIR
+from stiff.case import load_case
+from stiff.check import CheckResult, run_check
+from stiff.checks.base import CheckRecord, expand
+from stiff.batched import case_geometry, check_variant, grid_geometry
+from stiff.workspace import grid_angles, pose_case
+
+DEMOS = sorted(CASES_DIR.glob("*.toml"))
+REL = 1e-9
+
+
+def _key(r: CheckRecord) -> tuple[str, str, str]:
+    return (r.item, r.mode, r.load_case)
+
+
+def _same_records(batched: list[CheckRecord], full: CheckResult, scale: float) -> None:
+    """Record for record: names, required factors and numbers to round-off.
+
+    ``scale`` is the largest demand of the case: a demand that is round-off (a member with no
+    load) may differ by a few 1e-12 of it, so demands compare with that absolute floor."""
+    assert [_key(r) for r in batched] == [_key(r) for r in full.checks]
+    for a, b in zip(batched, full.checks, strict=True):
+        assert a.required_factor == b.required_factor
+        assert a.unit == b.unit
+        assert math.isclose(a.demand, b.demand, rel_tol=REL, abs_tol=1e-9 * scale), _key(a)
+        assert math.isclose(a.capacity, b.capacity, rel_tol=REL, abs_tol=1e-9 * scale), _key(a)
+
+
+def _scale(result: CheckResult) -> float:
+    return max(abs(r.demand) for r in result.checks if math.isfinite(r.demand))
+
+
+@pytest.mark.parametrize("path", DEMOS, ids=lambda p: p.stem)
+def test_one_pose_gives_the_records_of_stiff_check(path: Path) -> None:
+    """The case's own pose through the batched path: every record of `stiff check`."""
+    case = load_case(path)
+    full = run_check(case)
+    checked = check_variant(case, case_geometry(case))
+    _same_records(expand(checked.checks.rows), full, _scale(full))
+    C = checked.checks.compliance_mm_per_N[0]
+    assert np.allclose(C, full.stiffness.compliance_mm_per_N, rtol=REL, atol=0.0)
+    if full.landing is not None:
+        assert checked.checks.landings is not None
+        assert math.isclose(checked.checks.landings[0].peak_N, full.landing.peak_N, rel_tol=REL)
+
+
+@pytest.mark.parametrize("path", DEMOS, ids=lambda p: p.stem)
+def test_poses_checked_together_give_each_pose_alone(path: Path) -> None:
+    """Three poses of a map checked at once: entry p of every row is `stiff check` of the case
+    moved to pose p (landing there too)."""
+    case = load_case(path)
+    _, _, grid = grid_angles(case, 3)
+    chosen = grid[::3][:3]
+    geometry = grid_geometry(case, chosen)
+    checked = check_variant(pose_case(case, tuple(chosen[geometry.reached[0]])), geometry)
+    rows = checked.checks.rows
+    for p, k in enumerate(geometry.reached):
+        full = run_check(pose_case(case, tuple(chosen[k])))
+        mine = [row.record(p) for row in rows if row.mask[p]]
+        _same_records(mine, full, _scale(full))
+        assert np.allclose(checked.checks.compliance_mm_per_N[p],
+                           full.stiffness.compliance_mm_per_N, rtol=REL, atol=0.0)
+
+
+def test_unreachable_grid_poses_are_left_out_with_their_reason() -> None:
+    """A grid pose the linkage cannot reach is not checked; its reason is kept."""
+    case = load_case(CASES_DIR / "five_bar_leg.toml")
+    angles = [a.angle_rad for a in case.actuators]
+    far = [x + 3.0 for x in angles]
+    geometry = grid_geometry(case, [angles, far])
+    assert geometry.reached == (0,)
+    assert 1 in geometry.why and geometry.why[1]
