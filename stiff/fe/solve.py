@@ -12,11 +12,11 @@ from __future__ import annotations
 from dataclasses import dataclass
 
 import numpy as np
-import scipy.linalg as sla
 
 from stiff.errors import MechanismError, ModelError
 from stiff.fe import assemble, element
 from stiff.fe.batch import batch_size, flat_slice
+from stiff.fe.linalg import PIVOT_TOLERANCE
 from stiff.fe.model import DOF_NAMES, DOFS_PER_NODE, FloatArray, FrameModel, IntArray
 from stiff.fe.reduce import Reduction, case_reduction, checked_solve, reduce
 from stiff.fe.results import Solution, recover
@@ -202,25 +202,74 @@ def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
     """(..., c) load factor λ at which each load case buckles the model (linear buckling).
 
     Solves (K + λ K_G) φ = 0 with K_G from the members' axial forces and the springs' tension
-    changes of the case; ``inf`` when no compression can buckle it.
+    changes of the case; ``inf`` when no compression can buckle it. Raises MechanismError when
+    a model of the batch is a mechanism (the check of the static solve).
+
+    The generalised problem −K_G φ = μ K φ, λ = 1/μ_max, is reduced to a standard one with the
+    Cholesky factor K = L Lᵀ: L⁻¹(−K_G)L⁻ᵀ y = μ y, the reduction LAPACK's ``dsygst`` does
+    (Golub & Van Loan, *Matrix Computations*, 4th ed., §8.7.2, from memory); here numpy's
+    stacked Cholesky, inverse and ``eigvalsh`` do it for every model and load case at once.
     """
     fac = _reduced(model)
-    fac.solve(np.zeros((*fac.Kr.shape[:-1], 1)))  # raises if the model is a mechanism
-    axial = solution.beam_axial
+    Kg = _free_geometric(model, fac, solution)  # (..., c, n_free, n_free)
+    if fac.Kr.shape[-1] == 0:
+        return np.full(Kg.shape[:-2], np.inf)
+    W = _whitening(fac)[..., None, :, :]  # against the load-case axis
+    A = W @ -Kg @ np.swapaxes(W, -1, -2)
+    mu = np.linalg.eigvalsh(0.5 * (A + np.swapaxes(A, -1, -2)))
+    top, low = mu[..., -1], mu[..., 0]
+    scale = np.maximum(np.maximum(np.abs(low), np.abs(top)), 1e-300)
+    buckles = top > 1e-12 * scale
+    out: FloatArray = np.divide(1.0, top, out=np.full(top.shape, np.inf), where=buckles)
+    return out
+
+
+def _free_geometric(model: FrameModel, fac: _Reduced, solution: Solution) -> FloatArray:
+    """(..., c, n_free, n_free) geometric stiffness at the free DOFs of every load case.
+
+    One load case at a time: each case's forces then have the model's own batch shape, which
+    the assembly broadcasts against (a batch of models with several cases would not).
+    """
+    axial = solution.beam_axial  # (..., c, n_beams)
     change = solution.spring_forces - model.springs.tension[..., None, :]
-    Kg = geometric_stiffness(model, fac.mats, axial, change)
-    Kgr = case_reduction(fac.red, Kg.shape[-3]).project(Kg)
-    Kr = np.broadcast_to(fac.Kr[..., None, :, :], Kgr.shape)
-    flat_k = Kr.reshape(-1, *Kr.shape[-2:])
-    flat_g = Kgr.reshape(-1, *Kgr.shape[-2:])
-    out = np.full(flat_k.shape[0], np.inf)
-    for i, (k, g) in enumerate(zip(flat_k, flat_g, strict=True)):
-        if k.shape[0] == 0:
-            continue
-        mu = sla.eigh(-g, k, eigvals_only=True)
-        if mu[-1] > 1e-12 * max(abs(mu[0]), abs(mu[-1]), 1e-300):
-            out[i] = 1.0 / mu[-1]
-    return out.reshape(Kgr.shape[:-2])
+    free = fac.red.free
+    return np.stack([
+        geometric_stiffness(model, fac.mats, axial[..., j, :], change[..., j, :]).take(
+            free, axis=-2).take(free, axis=-1)
+        for j in range(axial.shape[-2])], axis=-3)
+
+
+def _whitening(fac: _Reduced) -> FloatArray:
+    """W = L⁻¹ Tᵀ (..., n_q, n_free), with K_r = Tᵀ K_ff T = L Lᵀ (T = I without rigid
+    constraints): W K_ff Wᵀ = I, and W A Wᵀ is L⁻¹ Tᵀ A T L⁻ᵀ for any free-free block A."""
+    L_inv = _inverse_cholesky(fac)
+    if fac.red.T is None:
+        return L_inv
+    W: FloatArray = L_inv @ np.swapaxes(fac.red.T, -1, -2)
+    return W
+
+
+def _inverse_cholesky(fac: _Reduced) -> FloatArray:
+    """L⁻¹ of the Cholesky factor K = L Lᵀ of every reduced stiffness (..., n_q, n_q).
+
+    The factors are checked as the static solve checks them (``stiff.fe.linalg``): a failed
+    factor, or a squared pivot below ``PIVOT_TOLERANCE`` of its diagonal, is a mechanism, and
+    the static solve's check then names it.
+    """
+    Kr = fac.Kr
+    try:
+        L = np.linalg.cholesky(Kr)
+        pivots = L.diagonal(axis1=-2, axis2=-1)
+        sound = bool(np.all(pivots * pivots >= PIVOT_TOLERANCE * Kr.diagonal(axis1=-2,
+                                                                             axis2=-1)))
+    except np.linalg.LinAlgError:
+        sound = False
+    if not sound:
+        fac.solve(np.zeros((*Kr.shape[:-1], 1)))  # raises the named MechanismError
+        raise MechanismError("the stiffness is not positive definite: the model is a "
+                             "mechanism or unstable")
+    L_inv: FloatArray = np.linalg.inv(L)
+    return L_inv
 
 
 def solve_second_order(
