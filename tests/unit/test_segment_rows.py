@@ -20,7 +20,7 @@ from hypothesis import strategies as st
 
 from stiff.checks import segments
 from stiff.checks.base import expand
-from stiff.checks.context import CheckContext
+from stiff.checks.context import CheckContext, member_forces
 from stiff.printed_sections import PrintedSection
 from tests.unit.test_pin_rows import CASES, assert_entrywise, batches, context
 
@@ -37,6 +37,41 @@ def test_stacked_rows_are_each_set_alone(name: str) -> None:
     ctx = context(name)
     compared = sum(assert_entrywise(segments.checks, ctx, sets) for sets in batches(ctx))
     assert compared > 0
+
+
+@pytest.mark.parametrize("name", CASES)
+def test_rows_are_the_worse_end_of_region_extremes(name: str) -> None:
+    # the rows take ε₀ ± (|κ_y||z| + |κ_z||y|) over the outer points of all regions at once;
+    # region_extremes tries the four curvature signs on every point through stress_range
+    ctx = context(name)
+    for loads in ctx.loads:
+        rows = segments.checks(CheckContext(ctx.case, ctx.built, [loads]))
+        by_key = {(r.item, r.mode): r for r in rows}
+        for m in member_forces(ctx, loads):
+            ps = ctx.built.beam_printed[m.index]
+            if ps is None:
+                continue
+            item = f"{m.part.name} {m.segment[0]}-{m.segment[1]}"
+            for region in ps.regions:
+                ends = [segments.region_extremes(ps, region, m.axial_N, m.moment_y_Nmm[e],
+                                                 m.moment_z_Nmm[e]) for e in (0, 1)]
+                high = max(float(hi[0]) for _, hi in ends)
+                low = min(float(lo[0]) for lo, _ in ends)
+                t, c = [r for (it, mode), r in by_key.items() if it == item
+                        and mode.endswith((f" {region.name})", f"the {region.name}"))]
+                assert (float(t.demand[0]), bool(t.mask[0])) == (max(high, 0.0), high > 0.0)
+                assert (float(c.demand[0]), bool(c.mask[0])) == (max(-low, 0.0), -low > 0.0)
+
+
+def test_outer_points_keep_the_extremes() -> None:
+    # a rectangle's four corners and centre: one |y|, |z| corner remains
+    pts = np.array([(-5.0, -4.0), (5.0, -4.0), (5.0, 4.0), (-5.0, 4.0), (0.0, 0.0)])
+    assert segments.outer_points(pts).tolist() == [[5.0, 4.0]]
+    # points on a circle of radius 5: the quadrants fold onto one, where no point reaches
+    # another in both |y| and |z|
+    ring = np.array([(3.0, 4.0), (-3.0, 4.0), (3.0, -4.0), (-3.0, -4.0), (5.0, 0.0), (-5.0, 0.0),
+                     (0.0, 5.0), (0.0, -5.0)])
+    assert segments.outer_points(ring).tolist() == [[0.0, 5.0], [3.0, 4.0], [5.0, 0.0]]
 
 
 def test_unloaded_entries_have_no_records() -> None:
