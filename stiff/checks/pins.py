@@ -154,10 +154,15 @@ def gaps(case: Case, joint: Joint) -> list[float]:
     return [abs(z[i + 1] - z[i]) - 0.5 * (t[i] + t[i + 1]) for i in range(len(t) - 1)]
 
 
-def _single_shear(case: Case, joint: Joint, plane: PinPlane
+def _arm_geometry(case: Case, joint: Joint) -> tuple[tuple[float, ...], tuple[float, ...]]:
+    """Each part's thickness along the pin and each gap, 0 where parts overlap [mm]."""
+    return (tuple(part_thickness(case, joint, p) for p in joint.parts),
+            tuple(max(0.0, v) for v in gaps(case, joint)))
+
+
+def _single_shear(t: tuple[float, ...], gaps_mm: tuple[float, ...], plane: PinPlane
                   ) -> tuple[FloatArray, Callable[[int], str]]:
-    t = [part_thickness(case, joint, p) for p in joint.parts]
-    g = max(0.0, gaps(case, joint)[0])
+    g = gaps_mm[0]
     V = plane.shear_N
     M = single_shear_moment(V, t[0], g, t[1])
 
@@ -167,11 +172,9 @@ def _single_shear(case: Case, joint: Joint, plane: PinPlane
     return M, text
 
 
-def _clevis(case: Case, joint: Joint, planes: list[PinPlane]
+def _clevis(joint: Joint, t: tuple[float, ...], g: tuple[float, ...], planes: list[PinPlane]
             ) -> tuple[FloatArray, Callable[[int], str]]:
     """The largest clevis moment over every middle part and both its sides, per entry."""
-    t = [part_thickness(case, joint, p) for p in joint.parts]
-    g = [max(0.0, v) for v in gaps(case, joint)]
     moments, halves, sides = [], [], []
     for k in range(1, len(planes)):
         left, right = planes[k - 1], planes[k]
@@ -200,9 +203,14 @@ def arm_moment(case: Case, joint: Joint, planes: list[PinPlane]
                ) -> tuple[FloatArray, Callable[[int], str]]:
     """(B,) clevis-arm bending moment of a pin in one load set [N·mm], and, for entry i, how it
     was found."""
+    return _arm(joint, *_arm_geometry(case, joint), planes)
+
+
+def _arm(joint: Joint, t: tuple[float, ...], g: tuple[float, ...], planes: list[PinPlane]
+         ) -> tuple[FloatArray, Callable[[int], str]]:
     if len(planes) == 1:
-        return _single_shear(case, joint, planes[0])
-    return _clevis(case, joint, planes)
+        return _single_shear(t, g, planes[0])
+    return _clevis(joint, t, g, planes)
 
 
 # ---------------------------------------------------------------------------------------------
@@ -218,6 +226,8 @@ class _Pin:
     shear: Allowable
     yield_: Allowable
     required: float
+    thickness_mm: tuple[float, ...]  # each part's, along the pin
+    gap_mm: tuple[float, ...]  # between neighbours, 0 where they overlap
 
     @property
     def item(self) -> str:
@@ -232,7 +242,7 @@ def _pin(ctx: CheckContext, joint: Joint) -> _Pin | None:
         SHEAR_FRACTION, f"shear strength × {SHEAR_FRACTION:g} of the ultimate (plain shank, "
                         "α_v = 0.6 of EN 1993-1-8 Table 3.4, from memory)")
     return _Pin(joint, joint.pin_diameter_mm, shear, metal_strength(metal, "yield"),
-                ctx.required("pin"))
+                ctx.required("pin"), *_arm_geometry(ctx.case, joint))
 
 
 def _shear_row(pin: _Pin, loads: LoadSet, plane: PinPlane) -> CheckRows:
@@ -249,9 +259,8 @@ def _shear_row(pin: _Pin, loads: LoadSet, plane: PinPlane) -> CheckRows:
         required_factor=pin.required, basis=basis, suggestion=SUGGEST_SHEAR)
 
 
-def _bending_row(ctx: CheckContext, pin: _Pin, loads: LoadSet, planes: list[PinPlane]
-                 ) -> CheckRows:
-    M_arm, arm_text = arm_moment(ctx.case, pin.joint, planes)
+def _bending_row(pin: _Pin, loads: LoadSet, planes: list[PinPlane]) -> CheckRows:
+    M_arm, arm_text = _arm(pin.joint, pin.thickness_mm, pin.gap_mm, planes)
     M_model = np.max(np.stack([p.tilt_Nmm for p in planes]), axis=0)
     M = np.maximum(M_arm, M_model)
     tail = (f"; against first yield, {pin.yield_.provenance}; the plastic shape factor "
@@ -273,7 +282,7 @@ def _pin_rows(ctx: CheckContext, pin: _Pin, loads: LoadSet) -> list[CheckRows]:
     if not planes:
         return []
     return ([_shear_row(pin, loads, p) for p in planes]
-            + [_bending_row(ctx, pin, loads, planes)])
+            + [_bending_row(pin, loads, planes)])
 
 
 def pin_checks(ctx: CheckContext, joint: Joint, loads: LoadSet) -> list[CheckRows]:

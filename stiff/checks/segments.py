@@ -121,7 +121,8 @@ def outer_points(points_yz_mm: FloatArray) -> FloatArray:
 def _fibres(ctx: CheckContext) -> _Fibres:
     rows = [(i, ps, r) for i, ps in enumerate(ctx.built.beam_printed) if ps is not None
             for r in ps.regions]
-    outer = [outer_points(r.points_yz_mm) for _, _, r in rows]
+    found = {r: outer_points(r.points_yz_mm) for _, _, r in rows}  # members share sections
+    outer = [found[r] for _, _, r in rows]
     k = max((p.shape[0] for p in outer), default=1)
     points = np.array([np.pad(p, ((0, k - p.shape[0]), (0, 0)), mode="edge") for p in outer]
                       ).reshape(len(rows), k, 2)
