@@ -121,7 +121,10 @@ def outer_points(points_yz_mm: FloatArray) -> FloatArray:
 def _fibres(ctx: CheckContext) -> _Fibres:
     rows = [(i, ps, r) for i, ps in enumerate(ctx.built.beam_printed) if ps is not None
             for r in ps.regions]
-    found = {r: outer_points(r.points_yz_mm) for _, _, r in rows}  # members share sections
+    found: dict[Region, FloatArray] = {}  # members may share a section
+    for _, _, r in rows:
+        if r not in found:
+            found[r] = outer_points(r.points_yz_mm)
     outer = [found[r] for _, _, r in rows]
     k = max((p.shape[0] for p in outer), default=1)
     points = np.array([np.pad(p, ((0, k - p.shape[0]), (0, 0)), mode="edge") for p in outer]
