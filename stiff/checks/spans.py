@@ -49,10 +49,10 @@ def _joints_at(case: Case, part: str, node: str) -> list[Joint]:
 
 
 def node_xy(ctx: CheckContext, part: str, node: str,
-            xyz: npt.NDArray[np.float64] | None = None) -> npt.NDArray[np.float64]:
-    """Position (x, y) [mm] of a part's node in the pose, or in the model nodes ``xyz``."""
-    where = ctx.built.model.xyz if xyz is None else xyz
-    return np.asarray(where[ctx.built.node_of[(part, node)], :2])
+            xyz: npt.NDArray[np.float64]) -> npt.NDArray[np.float64]:
+    """Position (x, y) [mm] of a part's node among model nodes ``xyz`` (..., n_nodes, 3) [mm]:
+    a load set's ``xyz_mm`` (B, n_nodes, 3) gives (B, 2), one pose's nodes (2,)."""
+    return np.asarray(xyz[..., ctx.built.node_of[(part, node)], :2])
 
 
 def _stronger(a: End | None, b: End) -> End:
@@ -107,9 +107,11 @@ def _through(ctx: CheckContext, part: str, node: str, joint: Joint,
         return End("fixed", part, node, f"{via}, fixed to the body at {node}")
     others = sorted({j.node for j in case.joints if part in j.parts and j.node != node})
     if not others:
-        p = case.part(part)
-        origin = node_xy(ctx, part, node)
-        far = max(p.nodes, key=lambda n: float(np.linalg.norm(node_xy(ctx, part, n) - origin)))
+        # the part moves rigidly from pose to pose: its farthest node is the same in every pose
+        p, xyz = case.part(part), ctx.built.model.xyz
+        origin = node_xy(ctx, part, node, xyz)
+        far = max(p.nodes,
+                  key=lambda n: float(np.linalg.norm(node_xy(ctx, part, n, xyz) - origin)))
         return End("free", part, far, f"{via}, which has no other joint (free at {far})")
     if len(others) == 1:
         end = span_end(ctx, part, others[0], seen | {(part, node)})

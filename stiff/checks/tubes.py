@@ -16,7 +16,9 @@ For every tube member in every load case (internal forces from ``stiff.checks.co
   factor λ of the whole load case, which knows the real end restraints, the printed fittings'
   lower stiffness and sway. It is reported as a check with demand 1 and capacity λ on the tube
   whose Euler factor is lowest in that load case (the tube most likely in the mode; the mode
-  may involve other parts, as the basis says).
+  may involve other parts, as the basis says). Over a batch that tube can change from entry to
+  entry, so every tube has a frame row in each load set, applying only in the entries where it
+  has the lowest factor (B = 1: the one record `stiff check` makes).
 * **Local shell buckling**: σ_cr = γ · 0.605 E t/R with mid-wall R and the SP-8007 knock-down γ
   for axial compression and for bending (:func:`sp8007_knockdown`), combined by the linear
   interaction R_c + R_b ≤ 1. The formula is for an isotropic shell; a carbon tube is
@@ -31,16 +33,17 @@ from __future__ import annotations
 
 import math
 from collections.abc import Sequence
+from dataclasses import dataclass, fields, is_dataclass
 from typing import Literal
 
 import numpy as np
+import numpy.typing as npt
 
 from stiff.case_model import Case, Part
-from stiff.checks.base import CheckRecord
-from stiff.checks.context import CheckContext, MemberForces, member_forces
+from stiff.checks.base import CheckRows, FloatArray, Text
+from stiff.checks.context import CheckContext, LoadSet, MemberForces, member_forces
 from stiff.checks.spans import End, EndKind, Span, node_xy, spans
-from stiff.fe import buckling_factors
-from stiff.loads import LoadCaseResult
+from stiff.fe import Solution, buckling_factors
 from stiff.materials import MetalMaterial, TubeMaterial
 from stiff.strength import ROOM_TEMPERATURE_C, Allowable, metal_strength
 
@@ -59,6 +62,9 @@ THIN_SHELL_FROM_R_OVER_T = 10.0
 UD_HOOP_RATIO = 0.1
 #: An axial strain below this is rounding in the solve, not a load: no check is made of it.
 NEGLIGIBLE_STRAIN = 1e-9
+#: Euler factors of two spans closer than this (relative) are equal when the frame's buckling
+#: row picks its tube: the difference is round-off of the solve.
+TIED_FACTORS = 1e-9
 
 #: AISC 360 Commentary Table C-A-7.1, recommended design values of K for braced ends (sway
 #: prevented) and for a cantilever [confirmed]; pinned-free and free-free have none.
@@ -71,22 +77,31 @@ _K_DESIGN: dict[frozenset[EndKind], float] = {
 
 
 # ---------------------------------------------------------------------------------------------
-# Formulas
+# Formulas: each takes floats or numpy arrays (broadcast together); floats give a float.
+
+#: A float, or an array of them.
+Real = float | FloatArray
 
 
-def tube_area(od_mm: float, id_mm: float) -> float:
+def _real(x: npt.ArrayLike) -> Real:
+    """A 0-d result as a float, an array as it is."""
+    a = np.asarray(x, np.float64)
+    return float(a) if a.ndim == 0 else a
+
+
+def tube_area(od_mm: Real, id_mm: Real) -> Real:
     """Cross-section area π(D² − d²)/4 [mm²] of a tube, outer and inner diameter [mm]."""
-    return math.pi * (od_mm**2 - id_mm**2) / 4.0
+    return _real(np.pi * (np.square(od_mm) - np.square(id_mm)) / 4.0)
 
 
-def tube_second_moment(od_mm: float, id_mm: float) -> float:
+def tube_second_moment(od_mm: Real, id_mm: Real) -> Real:
     """Second moment of area π(D⁴ − d⁴)/64 [mm⁴] of a tube, diameters [mm]."""
-    return math.pi * (od_mm**4 - id_mm**4) / 64.0
+    return _real(np.pi * (np.power(od_mm, 4) - np.power(id_mm, 4)) / 64.0)
 
 
-def tube_section_modulus(od_mm: float, id_mm: float) -> float:
+def tube_section_modulus(od_mm: Real, id_mm: Real) -> Real:
     """Elastic section modulus π(D⁴ − d⁴)/(32D) [mm³] of a tube, diameters [mm]."""
-    return math.pi * (od_mm**4 - id_mm**4) / (32.0 * od_mm)
+    return _real(np.pi * (np.power(od_mm, 4) - np.power(id_mm, 4)) / (32.0 * np.asarray(od_mm)))
 
 
 def effective_length_factor(end_a: EndKind, end_b: EndKind) -> float:
@@ -105,7 +120,7 @@ def effective_length_factor(end_a: EndKind, end_b: EndKind) -> float:
     return _K_DESIGN.get(frozenset({end_a, end_b}), math.inf)
 
 
-def euler_load(E_MPa: float, I_mm4: float, length_mm: float, K: float) -> float:
+def euler_load(E_MPa: Real, I_mm4: Real, length_mm: Real, K: Real) -> Real:
     """Euler buckling load P_cr = π²EI/(KL)² [N].
 
     Parameters
@@ -119,23 +134,23 @@ def euler_load(E_MPa: float, I_mm4: float, length_mm: float, K: float) -> float:
     K
         Effective-length factor (:func:`effective_length_factor`); ``inf`` gives 0.
     """
-    if math.isinf(K):
-        return 0.0
-    return math.pi**2 * E_MPa * I_mm4 / (K * length_mm) ** 2
+    K_arr = np.asarray(K, np.float64)
+    finite = np.where(np.isinf(K_arr), 1.0, K_arr)
+    load = np.pi**2 * np.asarray(E_MPa) * I_mm4 / np.square(finite * length_mm)
+    return _real(np.where(np.isinf(K_arr), 0.0, load))
 
 
-def engesser_load(euler_N: float, shear_stiffness_N: float) -> float:
+def engesser_load(euler_N: Real, shear_stiffness_N: Real) -> Real:
     """Buckling load with shear deformation, P = P_e / (1 + P_e/(κGA)) [N].
 
     Engesser's formula (Timoshenko & Gere, *Theory of Elastic Stability*, 2nd ed., §2.16, from
     memory). ``shear_stiffness_N`` is κGA [N]; ``inf`` returns the Euler load ``euler_N`` [N].
     """
-    if math.isinf(shear_stiffness_N):
-        return euler_N
-    return euler_N / (1.0 + euler_N / shear_stiffness_N)
+    P_e = np.asarray(euler_N, np.float64)
+    return _real(P_e / (1.0 + P_e / np.asarray(shear_stiffness_N, np.float64)))
 
 
-def sp8007_knockdown(r_over_t: float, mode: ShellMode) -> float:
+def sp8007_knockdown(r_over_t: Real, mode: ShellMode) -> Real:
     """NASA SP-8007 knock-down γ on the classical buckling stress of a thin cylinder.
 
     Axial compression γ = 1 − 0.901(1 − e^−φ), bending γ = 1 − 0.731(1 − e^−φ), with
@@ -152,28 +167,33 @@ def sp8007_knockdown(r_over_t: float, mode: ShellMode) -> float:
     Raises
     ------
     ValueError
-        R/t not in (0, 1500).
+        R/t not in (0, 1500) (any entry of an array).
     """
-    if not 0.0 < r_over_t < SP8007_MAX_R_OVER_T:
-        raise ValueError(f"SP-8007's knock-down holds for 0 < R/t < 1500, got {r_over_t:g}")
-    phi = math.sqrt(r_over_t) / 16.0
+    ratio = np.asarray(r_over_t, np.float64)
+    outside = ~((ratio > 0.0) & (ratio < SP8007_MAX_R_OVER_T))
+    if outside.any():
+        raise ValueError("SP-8007's knock-down holds for 0 < R/t < 1500, got "
+                         f"{float(ratio[outside].flat[0]):g}")
+    phi = np.sqrt(ratio) / 16.0
     c = 0.901 if mode == "axial" else 0.731
-    return 1.0 - c * (1.0 - math.exp(-phi))
+    return _real(1.0 - c * (1.0 - np.exp(-phi)))
 
 
-def classical_shell_stress(E_MPa: float, t_mm: float, R_mm: float) -> float:
+def classical_shell_stress(E_MPa: Real, t_mm: Real, R_mm: Real) -> Real:
     """Classical buckling stress of an isotropic cylinder, 0.605 E t/R [MPa] (ν = 0.3).
 
     ``E_MPa`` modulus [MPa], ``t_mm`` wall thickness [mm], ``R_mm`` mid-wall radius [mm].
     """
-    return CLASSICAL_SHELL * E_MPa * t_mm / R_mm
+    return _real(CLASSICAL_SHELL * np.asarray(E_MPa) * t_mm / R_mm)
 
 
-def shell_buckling_stress(E_MPa: float, od_mm: float, id_mm: float, mode: ShellMode) -> float:
+def shell_buckling_stress(E_MPa: Real, od_mm: Real, id_mm: Real, mode: ShellMode) -> Real:
     """Local buckling stress γ · 0.605 E t/R [MPa] of a tube, mid-wall R, diameters [mm]."""
-    t = (od_mm - id_mm) / 2.0
-    R = (od_mm + id_mm) / 4.0
-    return sp8007_knockdown(R / t, mode) * classical_shell_stress(E_MPa, t, R)
+    D, d = np.asarray(od_mm, np.float64), np.asarray(id_mm, np.float64)
+    t = (D - d) / 2.0
+    R = (D + d) / 4.0
+    return _real(np.asarray(sp8007_knockdown(_real(R / t), mode))
+                 * classical_shell_stress(E_MPa, _real(t), _real(R)))
 
 
 # ---------------------------------------------------------------------------------------------
@@ -236,36 +256,73 @@ def axial_strength(material: TubeStock, sense: Sense,
 # Checks
 
 
+@dataclass(frozen=True)
+class _Tube:
+    """What a tube's checks need that no load changes: its section, strengths and spans."""
+
+    part: Part
+    material: TubeStock
+    spans: tuple[Span, ...]
+    E: float  # axial modulus [MPa]
+    A: float  # [mm²]
+    S: float  # [mm³]
+    I: float  # [mm⁴]
+    allowable: tuple[tuple[Sense, Allowable], ...]  # tension, then compression
+    r_over_t: float
+
+
+def _tube(ctx: CheckContext, part: Part) -> _Tube:
+    assert part.od_mm is not None and part.id_mm is not None
+    D, d = part.od_mm, part.id_mm
+    material = tube_material(ctx.case, part)
+    temperature = ctx.case.loads.service_temperature_C
+    return _Tube(
+        part=part, material=material, spans=tuple(spans(ctx, part)), E=modulus(material),
+        A=float(tube_area(D, d)), S=float(tube_section_modulus(D, d)),
+        I=float(tube_second_moment(D, d)),
+        allowable=tuple((sense, axial_strength(material, sense, temperature))
+                        for sense in ("tension", "compression")),
+        r_over_t=(D + d) / 4.0 / ((D - d) / 2.0))
+
+
 def _where(part: Part, nodes: tuple[str, str]) -> str:
     """Which member or span of a tube of several members a check is about (the item is the
     tube)."""
     return "" if len(part.segments) == 1 else f" ({nodes[0]}-{nodes[1]})"
 
 
-def _stress_records(ctx: CheckContext, result: LoadCaseResult, m: MemberForces,
-                    material: TubeStock) -> list[CheckRecord]:
-    part = m.part
-    assert part.od_mm is not None and part.id_mm is not None
-    A = tube_area(part.od_mm, part.id_mm)
-    S = tube_section_modulus(part.od_mm, part.id_mm)
-    axial = m.axial_N / A
-    bending = max(math.hypot(m.moment_y_Nmm[e], m.moment_z_Nmm[e]) for e in (0, 1))
-    sigma_b = bending / S
+def _bending(m: MemberForces) -> FloatArray:
+    """(B,) bending moment hypot(M_y, M_z) at the worse end [N·mm]."""
+    ends = [np.hypot(m.moment_y_Nmm[e], m.moment_z_Nmm[e]) for e in (0, 1)]
+    worse: FloatArray = np.maximum(ends[0], ends[1])
+    return worse
+
+
+def _stress_basis(N: FloatArray, M: FloatArray, tail: str) -> Text:
+    def basis(i: int) -> str:
+        return (f"σ = N/A ± M/S, N = {float(N[i]):.4g} N, M = {float(M[i]):.4g} N·mm (worse "
+                f"end), {tail}")
+    return basis
+
+
+def _stress_rows(ctx: CheckContext, loads: LoadSet, m: MemberForces, tube: _Tube
+                 ) -> list[CheckRows]:
+    axial = m.axial_N / tube.A
+    bending = _bending(m)
+    sigma_b = bending / tube.S
+    demands = {"tension": axial + sigma_b, "compression": sigma_b - axial}
     out = []
-    senses: tuple[tuple[Sense, float], ...] = (("tension", axial + sigma_b),
-                                               ("compression", sigma_b - axial))
-    for sense, demand in senses:
-        if demand <= NEGLIGIBLE_STRAIN * modulus(material):
-            continue
-        allowable = axial_strength(material, sense, ctx.case.loads.service_temperature_C)
-        basis = (f"σ = N/A ± M/S, N = {m.axial_N:.4g} N, M = {bending:.4g} N·mm (worse end), "
-                 f"A = {A:.4g} mm², S = π(D⁴−d⁴)/(32D) = {S:.4g} mm³; {allowable.provenance}")
-        out.append(CheckRecord(
-            item=part.name, kind="tube",
-            mode=f"axial and bending, {sense}{_where(part, m.segment)}",
-            load_case=result.name, demand=demand, capacity=allowable.value_MPa, unit="MPa",
-            required_factor=ctx.required("tube"), basis=basis,
-            suggestion="a larger or thicker-walled tube, or a shorter lever to the load"))
+    for sense, allowable in tube.allowable:
+        demand = demands[sense]
+        tail = (f"A = {tube.A:.4g} mm², S = π(D⁴−d⁴)/(32D) = {tube.S:.4g} mm³; "
+                f"{allowable.provenance}")
+        out.append(CheckRows(
+            item=tube.part.name, kind="tube",
+            mode=f"axial and bending, {sense}{_where(tube.part, m.segment)}",
+            load_case=loads.name, demand=demand, capacity=allowable.value_MPa, unit="MPa",
+            required_factor=ctx.required("tube"), basis=_stress_basis(m.axial_N, bending, tail),
+            suggestion="a larger or thicker-walled tube, or a shorter lever to the load",
+            applies=demand > NEGLIGIBLE_STRAIN * tube.E))
     return out
 
 
@@ -284,138 +341,202 @@ def local_buckling_basis(material: TubeStock, r_over_t: float) -> str:
     return text
 
 
-def _local_record(ctx: CheckContext, result: LoadCaseResult, m: MemberForces,
-                  material: TubeStock) -> CheckRecord | None:
-    part = m.part
+def _local_basis(compression: FloatArray, sigma_b: FloatArray, cr_axial: float,
+                 cr_bending: float, tail: str) -> Text:
+    def basis(i: int) -> str:
+        return (f"R_c = {float(compression[i]):.4g}/{cr_axial:.4g} MPa, R_b = "
+                f"{float(sigma_b[i]):.4g}/{cr_bending:.4g} MPa, {tail}")
+    return basis
+
+
+def _local_row(ctx: CheckContext, loads: LoadSet, m: MemberForces, tube: _Tube
+               ) -> CheckRows | None:
+    if tube.r_over_t >= SP8007_MAX_R_OVER_T:
+        return None
+    part = tube.part
     assert part.od_mm is not None and part.id_mm is not None
-    D, d = part.od_mm, part.id_mm
-    r_over_t = (D + d) / 4.0 / ((D - d) / 2.0)
-    if r_over_t >= SP8007_MAX_R_OVER_T:
-        return None
-    E = modulus(material)
-    cr_axial = shell_buckling_stress(E, D, d, "axial")
-    cr_bending = shell_buckling_stress(E, D, d, "bending")
-    compression = max(-m.axial_N / tube_area(D, d), 0.0)
-    bending = max(math.hypot(m.moment_y_Nmm[e], m.moment_z_Nmm[e]) for e in (0, 1))
-    sigma_b = bending / tube_section_modulus(D, d)
-    ratio = compression / cr_axial + sigma_b / cr_bending
-    if compression + sigma_b <= NEGLIGIBLE_STRAIN * E:
-        return None
-    basis = (f"R_c = {compression:.4g}/{cr_axial:.4g} MPa, R_b = {sigma_b:.4g}/{cr_bending:.4g} "
-             f"MPa, E = {E:.4g} MPa, R/t = {r_over_t:.3g}; "
-             f"{local_buckling_basis(material, r_over_t)}")
-    return CheckRecord(
+    cr_axial = float(shell_buckling_stress(tube.E, part.od_mm, part.id_mm, "axial"))
+    cr_bending = float(shell_buckling_stress(tube.E, part.od_mm, part.id_mm, "bending"))
+    compression = np.maximum(-m.axial_N / tube.A, 0.0)
+    sigma_b = _bending(m) / tube.S
+    tail = (f"E = {tube.E:.4g} MPa, R/t = {tube.r_over_t:.3g}; "
+            f"{local_buckling_basis(tube.material, tube.r_over_t)}")
+    return CheckRows(
         item=part.name, kind="tube",
         mode=f"local shell buckling (SP-8007){_where(part, m.segment)}",
-        load_case=result.name, demand=ratio, capacity=1.0, unit="-",
-        required_factor=ctx.required("buckling"), basis=basis,
-        suggestion="a thicker wall (lower R/t)")
+        load_case=loads.name, demand=compression / cr_axial + sigma_b / cr_bending,
+        capacity=1.0, unit="-", required_factor=ctx.required("buckling"),
+        basis=_local_basis(compression, sigma_b, cr_axial, cr_bending, tail),
+        suggestion="a thicker wall (lower R/t)",
+        applies=compression + sigma_b > NEGLIGIBLE_STRAIN * tube.E)
 
 
 def _end_text(end: End) -> str:
     return f"{end.kind} ({end.why})"
 
 
-def _euler_record(ctx: CheckContext, result: LoadCaseResult, span: Span,
-                  forces: Sequence[MemberForces], material: TubeStock
-                  ) -> tuple[CheckRecord, float] | None:
-    """The span's Euler check and its factor P_cr/|N|, when it is in compression."""
-    compression = max(-forces[i].axial_N for i in span.members)
-    part = span.part
-    assert part.od_mm is not None and part.id_mm is not None
-    if compression <= NEGLIGIBLE_STRAIN * modulus(material) * tube_area(part.od_mm, part.id_mm):
-        return None
+def _euler_basis(P_e: FloatArray, L: FloatArray, kGA: float, tube: _Tube, span: Span,
+                 K: float) -> Text:
+    a, b = span.ends
+    tail = (f"{a.node} on {a.part} to {b.node} on {b.part}; ends {_end_text(a)} and "
+            f"{_end_text(b)}: K = {K:g}, recommended design value (AISC 360 Commentary, Table "
+            "C-A-7.1), braced against sway; the tube's EI over the whole length (printed "
+            "fittings are softer: see the frame's buckling factor)")
+
+    def basis(i: int) -> str:
+        return (f"P_cr = π²EI/(KL)² = {float(P_e[i]):.4g} N, with shear P_e/(1 + P_e/κGA), "
+                f"κGA = {kGA:.4g} N (Engesser; Timoshenko & Gere, Theory of Elastic Stability, "
+                f"2nd ed. §2.16, from memory); E = {tube.E:.4g} MPa, I = {tube.I:.4g} mm⁴, "
+                f"L = {float(L[i]):.4g} mm from {tail}")
+    return basis
+
+
+def _euler_row(ctx: CheckContext, loads: LoadSet, span: Span, forces: Sequence[MemberForces],
+               tube: _Tube) -> tuple[CheckRows, FloatArray]:
+    """The span's Euler check and its factor P_cr/|N| ((B,), ``inf`` where the span is not in
+    compression)."""
+    compression = np.max([-forces[i].axial_N for i in span.members], axis=0)
+    applies = compression > NEGLIGIBLE_STRAIN * tube.E * tube.A
     a, b = span.ends
     K = effective_length_factor(a.kind, b.kind)
     member_length = sum(forces[i].length_mm for i in span.members)
-    xyz = result.model.xyz
-    chord = float(np.linalg.norm(node_xy(ctx, a.part, a.node, xyz)
-                                 - node_xy(ctx, b.part, b.node, xyz)))
-    L = max(member_length, chord)
-    E, I = modulus(material), tube_second_moment(part.od_mm, part.id_mm)
-    P_e = euler_load(E, I, L, K)
-    sections = [ctx.built.beam_sections[i] for i in span.members]
-    kGA = min(s.G_MPa * min(s.Asy_mm2, s.Asz_mm2) for s in sections)
-    P_cr = engesser_load(P_e, kGA)
-    basis = (f"P_cr = π²EI/(KL)² = {P_e:.4g} N, with shear P_e/(1 + P_e/κGA), κGA = "
-             f"{kGA:.4g} N (Engesser; Timoshenko & Gere, Theory of Elastic Stability, 2nd ed. "
-             f"§2.16, from memory); E = {E:.4g} MPa, I = {I:.4g} mm⁴, L = {L:.4g} mm from "
-             f"{a.node} on {a.part} to {b.node} on {b.part}; ends {_end_text(a)} and "
-             f"{_end_text(b)}: K = {K:g}, recommended design value (AISC 360 Commentary, Table "
-             "C-A-7.1), braced against sway; the tube's EI over the whole length (printed "
-             "fittings are softer: see the frame's buckling factor)")
-    record = CheckRecord(
-        item=part.name, kind="tube", mode=f"Euler buckling{_where(part, span.nodes)}",
-        load_case=result.name,
-        demand=compression, capacity=P_cr, unit="N", required_factor=ctx.required("buckling"),
-        basis=basis, suggestion="a stiffer tube (larger diameter), a shorter span, or ends "
-                                "held against rotation")
-    return record, P_cr / compression
+    xyz = loads.xyz_mm
+    chord = np.linalg.norm(node_xy(ctx, a.part, a.node, xyz) - node_xy(ctx, b.part, b.node, xyz),
+                           axis=-1)
+    L = np.maximum(member_length, chord)
+    P_e = np.asarray(euler_load(tube.E, tube.I, L, K))
+    kGA = min(s.G_MPa * min(s.Asy_mm2, s.Asz_mm2)
+              for s in (ctx.built.beam_sections[i] for i in span.members))
+    P_cr = np.asarray(engesser_load(P_e, kGA))
+    row = CheckRows(
+        item=tube.part.name, kind="tube", mode=f"Euler buckling{_where(tube.part, span.nodes)}",
+        load_case=loads.name, demand=compression, capacity=P_cr, unit="N",
+        required_factor=ctx.required("buckling"), basis=_euler_basis(P_e, L, kGA, tube, span, K),
+        suggestion="a stiffer tube (larger diameter), a shorter span, or ends held against "
+                   "rotation",
+        applies=applies)
+    factor = np.divide(P_cr, compression, out=np.full(compression.shape, np.inf), where=applies)
+    return row, factor
 
 
-def frame_buckling_factor(result: LoadCaseResult) -> float:
-    """The load factor λ at which a solved load case buckles the frame (``inf``: never)."""
-    return float(np.ravel(buckling_factors(result.model, result.solution))[0])
+def _same(a: object, b: object) -> bool:
+    """True when two models (or their parts) hold the same numbers."""
+    if a is b:
+        return True
+    if isinstance(a, np.ndarray) and isinstance(b, np.ndarray):
+        return a.shape == b.shape and bool(np.array_equal(a, b))
+    if is_dataclass(a) and is_dataclass(b) and not isinstance(a, type) and type(a) is type(b):
+        return all(_same(getattr(a, f.name), getattr(b, f.name)) for f in fields(a))
+    return bool(a == b)
 
 
-def _frame_record(ctx: CheckContext, result: LoadCaseResult, item: str, euler: float
-                  ) -> CheckRecord | None:
-    lam = frame_buckling_factor(result)
-    if math.isinf(lam):
-        return None
-    basis = (f"load factor λ = {lam:.4g} of the whole load case from the frame's linear "
-             "buckling analysis (K + λ K_G) φ = 0 (stiff.fe), with the joints' and printed "
-             "parts' real stiffness and sway; attached to the tube with the lowest Euler factor "
-             f"in this load case ({euler:.3g}): the mode may involve other parts")
-    if lam < 0.5 * euler:
-        basis += ("; λ is well below the tube's own Euler factor, so the mode lies mostly in "
-                  "other members (printed parts) or the joints")
-    return CheckRecord(
-        item=item, kind="tube", mode="linear buckling (frame)", load_case=result.name,
-        demand=1.0, capacity=lam, unit="-", required_factor=ctx.required("buckling"),
-        basis=basis, suggestion="stiffen the members in compression or their joints")
+def frame_buckling_factors(loads: Sequence[LoadSet]) -> list[FloatArray]:
+    """(B,) load factor λ at which each load set buckles the frame (``inf``: never), per set.
+
+    Load sets solved on the same model (the load cases `stiff check` solves together, or
+    equal models of other sets) are analysed in one call, so the stiffness is assembled and
+    factored once for all of them.
+    """
+    groups: list[list[int]] = []
+    for k, s in enumerate(loads):
+        group = next((g for g in groups if _same(loads[g[0]].model, s.model)), None)
+        if group is None:
+            groups.append([k])
+        else:
+            group.append(k)
+    out: dict[int, FloatArray] = {}
+    for members in groups:
+        model = loads[members[0]].model
+        axis = len(model.batch_shape)  # the load-case axis of the solutions
+        solution = Solution(**{
+            name: np.concatenate([getattr(loads[k].solution, name) for k in members], axis=axis)
+            for name in Solution.__dataclass_fields__})
+        lam = buckling_factors(model, solution).reshape(-1, len(members))
+        for j, k in enumerate(members):
+            out[k] = lam[:, j]
+    return [out[k] for k in range(len(loads))]
 
 
-def _tubes(ctx: CheckContext) -> list[tuple[Part, TubeStock, list[Span]]]:
-    return [(p, tube_material(ctx.case, p), spans(ctx, p))
-            for p in ctx.case.parts if p.kind == "tube"]
+def _frame_basis(lam: FloatArray, lowest: FloatArray) -> Text:
+    def basis(i: int) -> str:
+        text = (f"load factor λ = {float(lam[i]):.4g} of the whole load case from the frame's "
+                "linear buckling analysis (K + λ K_G) φ = 0 (stiff.fe), with the joints' and "
+                "printed parts' real stiffness and sway; attached to the tube with the lowest "
+                f"Euler factor in this load case ({float(lowest[i]):.3g}): the mode may involve "
+                "other parts")
+        if lam[i] < 0.5 * lowest[i]:
+            text += ("; λ is well below the tube's own Euler factor, so the mode lies mostly "
+                     "in other members (printed parts) or the joints")
+        return text
+    return basis
 
 
-def checks(ctx: CheckContext) -> list[CheckRecord]:
-    """Every tube in every load case: stress, Euler, frame buckling, local buckling."""
+def _frame_rows(ctx: CheckContext, loads: LoadSet, lam: FloatArray, tubes: Sequence[_Tube],
+                factors: Sequence[tuple[int, FloatArray]]) -> list[CheckRows]:
+    """One frame-buckling row per tube, applying in the entries where that tube has the lowest
+    Euler factor of the load set (of the spans in compression) and the frame can buckle.
+
+    ``factors``: (tube index, (B,) Euler factor) of every span, in check order. Factors within
+    :data:`TIED_FACTORS` of the lowest are a tie, which the first span in that order wins: the
+    two links of a symmetric linkage tie, and round-off must not pick between them.
+    """
+    if not factors:
+        return []
+    owner = np.array([t for t, _ in factors])
+    table = np.stack([f for _, f in factors])  # (n_spans, B)
+    lowest = table.min(axis=0)
+    best = np.argmax(table <= lowest * (1.0 + TIED_FACTORS), axis=0)
+    live = np.isfinite(lowest) & np.isfinite(lam)
+    basis = _frame_basis(lam, lowest)
+    return [CheckRows(
+        item=tube.part.name, kind="tube", mode="linear buckling (frame)", load_case=loads.name,
+        demand=np.ones(lam.shape), capacity=lam, unit="-",
+        required_factor=ctx.required("buckling"), basis=basis,
+        suggestion="stiffen the members in compression or their joints",
+        applies=live & (owner[best] == t)) for t, tube in enumerate(tubes)]
+
+
+def _load_set_rows(ctx: CheckContext, loads: LoadSet, lam: FloatArray, tubes: Sequence[_Tube]
+                   ) -> list[CheckRows]:
+    """Every tube's checks in one load set, the frame's buckling last."""
+    forces = member_forces(ctx, loads)
+    out: list[CheckRows] = []
+    factors: list[tuple[int, FloatArray]] = []
+    for t, tube in enumerate(tubes):
+        for m in forces:
+            if m.part.name != tube.part.name:
+                continue
+            out += _stress_rows(ctx, loads, m, tube)
+            local = _local_row(ctx, loads, m, tube)
+            if local is not None:
+                out.append(local)
+        for span in tube.spans:
+            row, factor = _euler_row(ctx, loads, span, forces, tube)
+            if not math.isinf(effective_length_factor(*(e.kind for e in span.ends))):
+                out.append(row)
+            factors.append((t, factor))
+    return out + _frame_rows(ctx, loads, lam, tubes, factors)
+
+
+def _tubes(ctx: CheckContext) -> list[_Tube]:
+    return [_tube(ctx, p) for p in ctx.case.parts if p.kind == "tube"]
+
+
+def checks(ctx: CheckContext) -> list[CheckRows]:
+    """Every tube in every load set: stress, Euler, frame buckling, local buckling."""
     tubes = _tubes(ctx)
-    out: list[CheckRecord] = []
-    for result in ctx.results:
-        forces = member_forces(ctx, result)
-        lowest: tuple[float, str] | None = None
-        for part, material, part_spans in tubes:
-            for m in forces:
-                if m.part.name != part.name:
-                    continue
-                out += _stress_records(ctx, result, m, material)
-                local = _local_record(ctx, result, m, material)
-                if local is not None:
-                    out.append(local)
-            for span in part_spans:
-                found = _euler_record(ctx, result, span, forces, material)
-                if found is None:
-                    continue
-                record, factor = found
-                if not math.isinf(effective_length_factor(*(e.kind for e in span.ends))):
-                    out.append(record)
-                if lowest is None or factor < lowest[0]:
-                    lowest = (factor, record.item)
-        if lowest is not None:
-            frame = _frame_record(ctx, result, lowest[1], lowest[0])
-            if frame is not None:
-                out.append(frame)
-    return out
+    if not tubes:
+        return []
+    lams = frame_buckling_factors(ctx.loads)
+    return [row for loads, lam in zip(ctx.loads, lams, strict=True)
+            for row in _load_set_rows(ctx, loads, lam, tubes)]
 
 
 def warnings(ctx: CheckContext) -> list[str]:
     """Cross-holes and clamps on pultruded tubes, spans with no Euler load, R/t out of range."""
     out: list[str] = []
-    for part, material, part_spans in _tubes(ctx):
+    for tube in _tubes(ctx):
+        part, material, part_spans = tube.part, tube.material, tube.spans
         hoop = (f"{material.hoop_MPa:g} MPa" if isinstance(material, TubeMaterial)
                 and material.hoop_MPa is not None else "low")
         if is_unidirectional(material):
@@ -437,8 +558,7 @@ def warnings(ctx: CheckContext) -> list[str]:
                 out.append(f"tube {part.name}{_where(part, span.nodes)}: {_end_text(a)} and "
                            f"{_end_text(b)}: no Euler load of its own; the frame's buckling "
                            "factor is its buckling check")
-        assert part.od_mm is not None and part.id_mm is not None
-        r_over_t = (part.od_mm + part.id_mm) / 4.0 / ((part.od_mm - part.id_mm) / 2.0)
+        r_over_t = tube.r_over_t
         if r_over_t >= SP8007_MAX_R_OVER_T:
             out.append(f"tube {part.name}: R/t = {r_over_t:.4g} is beyond SP-8007's range "
                        "(below 1500): its local buckling is not checked")
