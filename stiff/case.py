@@ -107,6 +107,17 @@ def parse_case(text: str, path: Path | None = None,
                library: MaterialLibrary | None = None) -> Case:
     """Validate a case given as TOML text."""
     reader, data = Reader.parse(path, text)
+    return read_case(reader, data, library)
+
+
+def read_case(reader: Reader, data: Mapping[str, Any],
+              library: MaterialLibrary | None = None) -> Case:
+    """Validate a parsed case document (``data`` as :func:`tomllib.loads` gives it).
+
+    ``reader`` holds the file's name and text, for the errors' file and line; a caller may
+    change values in ``data`` (a design sweep does) and read it again through here.
+    """
+    path = reader.file
     top = reader.table("", data, TOP)
     lib = _library(reader, top, library or load_library(), path)
     nodes = _nodes(reader, top["nodes"])

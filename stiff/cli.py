@@ -14,6 +14,7 @@ import matplotlib.pyplot as plt
 
 from stiff import CASES_DIR, __version__
 from stiff.case import load_case
+from stiff.case_model import Case
 from stiff.check import run_check
 from stiff.errors import (
     EXIT_BAD_INPUT,
@@ -30,11 +31,11 @@ from stiff.report.document import write_report
 from stiff.report.results_json import results_dict, write_results
 from stiff.report.summary import summary_lines
 from stiff.report.sweep_plots import MAP_LABELS, angle_plot, map_plot, pareto_plot
-from stiff.report.sweep_text import map_lines, sweep_lines
+from stiff.report.sweep_text import SweepOutcome, map_lines, outcome_lines, sweep_outcome
 from stiff.report_text import material_detail, materials_list, section_comparison
-from stiff.sweep import Prefer, recommend, run_sweep, sensitivity, write_csv
-from stiff.sweep_spec import apply_values, parse_specs, variant_count
-from stiff.workspace import grid_angles, workspace_map, write_map_csv
+from stiff.sweep import DEFAULT_RATE_MM3_PER_S, Prefer, run_sweep, write_csv
+from stiff.sweep_spec import parse_specs, variant_count
+from stiff.workspace import grid_angles, target_map, workspace_map, write_map_csv
 
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
@@ -269,37 +270,81 @@ def _check_case_path(path: Path) -> None:
                         ) from None
 
 
+_VARY_HELP = ("PART.SETTING=VALUES, e.g. crank_a.walls=2,3,4, link_a.size=6x4,8x6, "
+              "'*.infill=20:60:20' (settings: walls, infill [%], pattern, build, width_mm, "
+              "depth_mm, size), or KEY=VALUES for any number in the case file, e.g. "
+              "loads.drop_height_mm=20:60:20. Repeatable: the sweep is every combination.")
+_PREFER = click.option(
+    "--prefer", type=click.Choice(["mass", "time"]), default="mass", show_default=True,
+    help="Recommend the lightest or the fastest-to-print variant meeting every check and "
+    "target.")
+_RATE = click.option(
+    "--rate-mm3-per-s", "rate", type=click.FloatRange(min=0.0, min_open=True),
+    default=DEFAULT_RATE_MM3_PER_S, show_default=True,
+    help="Volumetric print rate for the print-time estimate [mm³/s] (8: common practice for "
+    "a 0.4 mm nozzle).")
+
+
+def _sweep(case: Case, specs: tuple[str, ...], rate: float, prefer: str, out_dir: Path | None,
+           hidden: bool) -> SweepOutcome:
+    """The sweep of ``specs`` over ``case``, with sweep.csv and sweep.png in ``out_dir``."""
+    chosen: Prefer = "time" if prefer == "time" else "mass"
+    variables = parse_specs(case, specs)
+    with click.progressbar(length=variant_count(variables), label="variants",
+                           file=sys.stderr, hidden=hidden or not sys.stderr.isatty()) as bar:
+        rows = run_sweep(case, variables, rate, progress=bar.update)
+    outcome = sweep_outcome(case, variables, rows, chosen)
+    if out_dir is None:
+        return outcome
+    best = outcome.best
+    csv_path = write_csv(out_dir / "sweep.csv", variables, rows)
+    png = _save(pareto_plot(rows, recommended=None if best is None else best.index),
+                out_dir / "sweep.png")
+    return replace(outcome, csv_path=csv_path, png_path=png)
+
+
 @cli.command()
 @click.argument("case_file", required=False, type=click.Path(path_type=Path))
 @click.option("--out", "out_dir", type=click.Path(path_type=Path),
-              help="Folder to write results.json into (made if missing).")
+              help="Folder to write results.json and the report into (made if missing).")
 @click.option("--json", "as_json", is_flag=True, help="Print results.json to stdout instead.")
 @click.option("--quiet", is_flag=True, help="Print only the verdict line.")
+@click.option("--sweep", "specs", multiple=True, metavar="SPEC",
+              help="Also sweep the case as `stiff sweep --vary SPEC` does, and add the sweep "
+              "to the summary and the report (sweep.csv, sweep.png beside it). " + _VARY_HELP)
+@_PREFER
+@_RATE
 @click.pass_context
 def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_json: bool,
-          quiet: bool) -> None:
+          quiet: bool, specs: tuple[str, ...], prefer: str, rate: float) -> None:
     """Solve CASE_FILE (default: the bundled five-bar leg demo) in its pose and report.
 
     Foot compliance and its principal directions, lateral compliance and twist, where the give
     comes from, and actuator torques under the stance load. Exit code 1 when a target in the
-    case is not met.
+    case is not met (a sweep does not change the exit code: it is about the case as written).
     """
     path = case_file or CASES_DIR / "five_bar_leg.toml"
+    swept = None
     try:
         _check_case_path(path)
+        case = load_case(path)
+        if specs:
+            parse_specs(case, specs)  # a bad specification is refused before any solve
         with click.progressbar(length=3 if out_dir is not None else 1, label="checking",
                                file=sys.stderr,
                                hidden=quiet or as_json or not sys.stderr.isatty()) as bar:
-            result = run_check(load_case(path))
+            result = run_check(case)
             bar.update(1)
-            written = report = None
-            if out_dir is not None:
-                written = write_results(result, out_dir)
-                bar.update(1)
-                report = write_report(result, out_dir)
-                bar.update(1)
+        if specs:
+            swept = _sweep(case, specs, rate, prefer, out_dir, quiet or as_json)
+        written = report = None
+        if out_dir is not None:
+            written = write_results(result, out_dir)
+            report = write_report(result, out_dir, sweep=swept)
     except StiffError as err:
         raise _command_error(err) from err
+    except OSError as err:
+        raise _InputError(StiffError(f"cannot write into {out_dir}: {err.strerror}")) from None
     if as_json:
         click.echo(json.dumps(results_dict(result), indent=2, ensure_ascii=False))
     elif quiet:
@@ -308,7 +353,12 @@ def check(ctx: click.Context, case_file: Path | None, out_dir: Path | None, as_j
         click.echo(f"{result.case.title}: {verdict}")
     else:
         click.echo("\n".join(summary_lines(result)))
+        if swept is not None:
+            click.echo("")
+            click.echo("\n".join(outcome_lines(swept)))
     if written is not None and not as_json:
+        if swept is not None and swept.csv_path is not None:
+            click.echo(f"variants: {swept.csv_path}")
         click.echo(f"results: {written}")
         click.echo(f"report: {report}")
     ctx.exit(EXIT_OK if result.all_met else EXIT_CHECK_FAILED)
@@ -330,50 +380,31 @@ def _save(ax: typing.Any, path: Path) -> Path:
 
 @cli.command()
 @click.argument("case_file", type=click.Path(path_type=Path))
-@click.option("--vary", "specs", multiple=True, required=True, metavar="SPEC",
-              help="PART.SETTING=VALUES, e.g. crank_a.walls=2,3,4, link_a.size=6x4,8x6, "
-              "'*.infill=20:60:20'; settings: walls, infill [%], pattern, build, width_mm, "
-              "depth_mm, size. Repeatable: the sweep is every combination.")
+@click.option("--vary", "specs", multiple=True, required=True, metavar="SPEC", help=_VARY_HELP)
 @click.option("--out", "out_dir", type=click.Path(path_type=Path), required=True,
               help="Folder to write sweep.csv and sweep.png into (made if missing).")
-@click.option("--prefer", type=click.Choice(["mass", "time"]), default="mass",
-              show_default=True, help="Recommend the lightest or the fastest-to-print variant "
-              "meeting every check and target.")
-@click.option("--rate-mm3-per-s", "rate", type=click.FloatRange(min=0.0, min_open=True),
-              default=8.0, show_default=True,
-              help="Volumetric print rate for the print-time estimate [mm³/s] (8: common "
-              "practice for a 0.4 mm nozzle).")
+@_PREFER
+@_RATE
 @click.pass_context
 def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: Path,
           prefer: str, rate: float) -> None:
-    """Check every combination of print settings and tube sizes of CASE_FILE.
+    """Check every combination of print settings, tube sizes and case values of CASE_FILE.
 
     Writes sweep.csv (one line per variant) and sweep.png (mass against compliance, Pareto
     front), and prints the recommended variant with its governing checks and the
     sensitivities. Exit code 1 when no variant meets every check and target.
     """
-    chosen: Prefer = "time" if prefer == "time" else "mass"
     try:
         _check_case_path(case_file)
-        case = load_case(case_file)
-        variables = parse_specs(case, specs)
-        with click.progressbar(length=variant_count(variables), label="variants",
-                               file=sys.stderr, hidden=not sys.stderr.isatty()) as bar:
-            rows = run_sweep(case, variables, rate, progress=bar.update)
-        best, meets = recommend(rows, chosen)
-        result = None if best is None else run_check(apply_values(case, variables, best.values))
-        csv_path = write_csv(out_dir / "sweep.csv", variables, rows)
-        png = _save(pareto_plot(rows, recommended=None if best is None else best.index),
-                    out_dir / "sweep.png")
+        outcome = _sweep(load_case(case_file), specs, rate, prefer, out_dir, False)
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:
         raise _InputError(StiffError(f"cannot write into {out_dir}: {err.strerror}")) from None
-    click.echo("\n".join(sweep_lines(case, variables, rows, best, meets, chosen, result,
-                                     sensitivity(variables, rows))))
-    click.echo(f"variants: {csv_path}")
-    click.echo(f"plot: {png}")
-    ctx.exit(EXIT_OK if meets else EXIT_CHECK_FAILED)
+    click.echo("\n".join(outcome_lines(outcome)))
+    click.echo(f"variants: {outcome.csv_path}")
+    click.echo(f"plot: {outcome.png_path}")
+    ctx.exit(EXIT_OK if outcome.meets else EXIT_CHECK_FAILED)
 
 
 @cli.command(name="map")
@@ -381,22 +412,42 @@ def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: 
 @click.option("--out", "out_dir", type=click.Path(path_type=Path), required=True,
               help="Folder to write map.csv and the map pictures into (made if missing).")
 @click.option("--steps", type=click.IntRange(min=2, max=101), default=7, show_default=True,
-              help="Angles per actuator over its range (±30° about the pose without one).")
-def map_command(case_file: Path, out_dir: Path, steps: int) -> None:
-    """Map CASE_FILE over a grid of actuator angles: compliance, strength, singularity.
+              help="Angles per actuator over its range (±30° about the pose without one); "
+              "with --grid foot, also the foot targets along x and along y.")
+@click.option("--grid", "grid", type=click.Choice(["angles", "foot"]), default="angles",
+              show_default=True, help="Sample actuator angles, or foot targets (x, y) solved "
+              "by the inverse kinematics (two actuators).")
+@click.option("--x-mm", "x_mm", type=float, nargs=2, metavar="FROM TO",
+              help="With --grid foot: the range of foot x [mm] (default: the x the angle grid "
+              "reaches).")
+@click.option("--y-mm", "y_mm", type=float, nargs=2, metavar="FROM TO",
+              help="With --grid foot: the range of foot y [mm] (default: the y the angle grid "
+              "reaches).")
+def map_command(case_file: Path, out_dir: Path, steps: int, grid: str,
+                x_mm: tuple[float, float] | None, y_mm: tuple[float, float] | None) -> None:
+    """Map CASE_FILE over a grid of actuator angles or foot targets: compliance, strength,
+    singularity.
 
     One actuator gives a line of poses, two a grid; further actuators stay at their pose.
-    Writes map.csv, map_<quantity>.png (foot positions coloured by vertical, lateral,
+    With --grid foot, a STEPS x STEPS grid of foot targets, each solved for its actuator
+    angles. Writes map.csv, map_<quantity>.png (foot positions coloured by vertical, lateral,
     min_factor, singularity) and map_angles.png (minimum factor over the angles); unreachable
-    and jammed poses are recorded in the CSV and marked, never an error.
+    and jammed poses and targets are recorded in the CSV with the reason and marked, never an
+    error.
     """
     try:
         _check_case_path(case_file)
         case = load_case(case_file)
-        count = len(grid_angles(case, steps)[2])
-        with click.progressbar(length=count, label="poses", file=sys.stderr,
+        if grid == "angles" and (x_mm or y_mm):
+            raise _InputError(StiffError("--x-mm and --y-mm need --grid foot"))
+        count = len(grid_angles(case, steps)[2]) * (2 if grid == "foot" else 1)
+        with click.progressbar(length=count, label="targets, then poses" if grid == "foot"
+                               else "poses", file=sys.stderr,
                                hidden=not sys.stderr.isatty()) as bar:
-            result = workspace_map(case, steps, progress=bar.update)
+            if grid == "foot":
+                result = target_map(case, steps, x_mm, y_mm, progress=bar.update)
+            else:
+                result = workspace_map(case, steps, progress=bar.update)
         out_dir.mkdir(parents=True, exist_ok=True)
         written = [write_map_csv(out_dir / "map.csv", case, result)]
         written += [_save(map_plot(result, metric), out_dir / f"map_{metric}.png")

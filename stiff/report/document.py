@@ -24,7 +24,10 @@ from stiff.check import CheckResult
 from stiff.factors import FACTORS, RequiredFactors
 from stiff.material_tables import COLUMNS, MaterialKind
 from stiff.report import plots
+from stiff.report.sweep_plots import pareto_plot
+from stiff.report.sweep_text import SweepOutcome, row_text, settings_text
 from stiff.report.tables import write_csv
+from stiff.sweep import pareto_front
 from stiff.units import rad_to_deg
 
 FIGURES: tuple[tuple[str, str, Callable[[CheckResult, Axes | None], Axes]], ...] = (
@@ -50,18 +53,31 @@ class Figure:
     png: bytes
 
 
+def _png(ax: Axes, dpi: int) -> bytes:
+    fig = ax.figure
+    fig.tight_layout()  # type: ignore[union-attr]
+    buffer = io.BytesIO()
+    fig.savefig(buffer, format="png", dpi=dpi)  # type: ignore[union-attr]
+    plt.close(fig)  # type: ignore[arg-type]
+    return buffer.getvalue()
+
+
 def render_figures(result: CheckResult, dpi: int = 110) -> list[Figure]:
     """Every figure of the report as PNG bytes."""
-    out = []
-    for name, caption, draw in FIGURES:
-        ax = draw(result, None)
-        fig = ax.figure
-        fig.tight_layout()  # type: ignore[union-attr]
-        buffer = io.BytesIO()
-        fig.savefig(buffer, format="png", dpi=dpi)  # type: ignore[union-attr]
-        plt.close(fig)  # type: ignore[arg-type]
-        out.append(Figure(name, caption, buffer.getvalue()))
-    return out
+    return [Figure(name, caption, _png(draw(result, None), dpi))
+            for name, caption, draw in FIGURES]
+
+
+#: The name of the sweep's Pareto figure, shown in the sweep's section.
+SWEEP_FIGURE = "sweep_pareto"
+
+
+def sweep_figure(sweep: SweepOutcome, dpi: int = 110) -> Figure:
+    """The sweep's Pareto plot (mass against compliance, the recommended variant starred)."""
+    best = None if sweep.best is None else sweep.best.index
+    return Figure(SWEEP_FIGURE, "Design sweep: mass against vertical compliance, coloured by "
+                  "minimum safety factor; the Pareto front joined",
+                  _png(pareto_plot(sweep.rows, recommended=best), dpi))
 
 
 def material_rows(result: CheckResult) -> list[dict[str, object]]:
@@ -140,10 +156,58 @@ class Section:
     head: tuple[str, ...] = ()
     rows: tuple[tuple[str, ...], ...] = ()
     row_classes: tuple[str, ...] = ()
+    links: tuple[tuple[str, str], ...] = ()  # (text, relative address)
+    figure: str = ""  # the name of a figure shown in this section, not with the others
 
 
-def sections(result: CheckResult) -> list[Section]:
-    """The report's text sections, shared by HTML and Markdown."""
+def sweep_sections(sweep: SweepOutcome, csv_name: str) -> list[Section]:
+    """The sweep's part of the report: counts, the recommended (or closest) variant with the
+    targets it misses and its governing checks, the sensitivities, and the CSV's link."""
+    rows, best = sweep.rows, sweep.best
+    met = sum(1 for r in rows if not r.error and r.all_met)
+    failed = [r for r in rows if r.error]
+    paragraphs = [f"{len(rows)} variants of {', '.join(v.name for v in sweep.variables)}; "
+                  f"{met} meet every check and target, {len(pareto_front(rows))} on the "
+                  "mass-compliance Pareto front."]
+    if failed:
+        paragraphs.append(f"{len(failed)} variants could not be checked, e.g. variant "
+                          f"{failed[0].index}: {failed[0].error}")
+    if best is None:
+        paragraphs.append("No variant could be checked.")
+    elif sweep.meets:
+        which = "lightest" if sweep.prefer == "mass" else "fastest to print"
+        paragraphs.append(f"Recommended ({which} meeting everything): variant {best.index}, "
+                          f"{settings_text(sweep.variables, best)}.")
+    else:
+        paragraphs.append("No variant meets every check and target. The closest (lowest worst "
+                          f"utilisation, {best.worst_utilisation:.3g}) is variant {best.index}, "
+                          f"{settings_text(sweep.variables, best)}; it misses: "
+                          + "; ".join(best.not_met) + ".")
+    if best is not None:
+        paragraphs.append(f"Variant {best.index}: {row_text(best)}.")
+    gov = sweep.check.governing if sweep.check is not None else ()
+    links = (("every variant, one line each (CSV)", csv_name),) if csv_name else ()
+    return [
+        Section("Design sweep", tuple(paragraphs), head=(
+            "status", "item", "mode", "load case", "factor", "required"),
+            rows=tuple((c.status, c.item, c.mode, c.load_case, _num(c.safety_factor),
+                        f"{c.required_factor:g}") for c in gov),
+            row_classes=tuple(c.status.replace(" ", "-") for c in gov), links=links,
+            figure=SWEEP_FIGURE),
+        Section("Design sweep: which variable matters most", (
+            "One at a time about the first value of each variable; the range (largest minus "
+            "smallest) across its values.",), head=(
+            "variable", "vertical compliance range [mm/N]", "minimum factor range [-]",
+            "mass range [g]"), rows=tuple(
+                (s.variable, _num(s.compliance_range_mm_per_N), _num(s.min_factor_range),
+                 _num(s.mass_range_g)) for s in sweep.sensitivities)),
+    ]
+
+
+def sections(result: CheckResult, sweep: SweepOutcome | None = None,
+             csv_name: str = "") -> list[Section]:
+    """The report's text sections, shared by HTML and Markdown; a sweep's sections follow the
+    governing checks, its CSV linked as ``csv_name`` when given."""
     case, st = result.case, result.stiffness
     angles = ", ".join(f"{a.name} {rad_to_deg(float(result.pose.angles_rad[i])):.1f}°"
                        for i, a in enumerate(case.actuators)) or "as drawn"
@@ -189,6 +253,7 @@ def sections(result: CheckResult) -> list[Section]:
             "status", "item", "mode", "load case", "demand", "capacity", "factor", "required",
             "what would help"), rows=governing_rows, row_classes=tuple(
                 c.status.replace(" ", "-") for c in gov)),
+        *(sweep_sections(sweep, csv_name) if sweep is not None else ()),
         Section("Load cases", head=("load case", "where the forces come from",
                                     "foot deflection x, y, z [mm]", "actuator torque [N·m]"),
                 rows=cases),
@@ -250,60 +315,85 @@ figure img { width: 100%; } figcaption { font-size: 0.8em; color: #5a6a75; }
 """
 
 
-def html_report(result: CheckResult, figures: list[Figure]) -> str:
-    """The whole report as one self-contained HTML page."""
+def _html_figure(f: Figure) -> str:
+    data = base64.b64encode(f.png).decode("ascii")
+    return (f"<figure><img alt='{_e(f.caption)}' src='data:image/png;base64,{data}'>"
+            f"<figcaption>{_e(f.caption)}</figcaption></figure>")
+
+
+def html_report(result: CheckResult, figures: list[Figure],
+                sweep: SweepOutcome | None = None, csv_name: str = "") -> str:
+    """The whole report as one self-contained HTML page (a sweep's CSV linked beside it)."""
     parts = [f"<!DOCTYPE html><html lang='en'><head><meta charset='utf-8'>"
              f"<title>stiff report: {_e(result.case.title)}</title><style>{_STYLE}</style>"
              f"</head><body><h1>stiff report: {_e(result.case.title)}</h1>"]
-    for k, sec in enumerate(sections(result)):
+    secs = sections(result, sweep, csv_name)
+    placed = {sec.figure for sec in secs}
+    for k, sec in enumerate(secs):
         parts.append(f"<h2>{_e(sec.title)}</h2>")
         if sec.title == "Cautions":
             items = "".join(f"<li>{_e(p)}</li>" for p in sec.paragraphs)
             parts.append(f"<div class='cautions'><ul>{items}</ul></div>")
         else:
             parts.extend(f"<p>{_e(p)}</p>" for p in sec.paragraphs)
+        parts.extend(f"<p><a href='{_e(href)}'>{_e(text)}</a></p>" for text, href in sec.links)
+        parts.extend(_html_figure(f) for f in figures if sec.figure and f.name == sec.figure)
         if sec.head:
             rows = [[_e(c) for c in row] for row in sec.rows]
             parts.append(_table(list(sec.head), rows, list(sec.row_classes) or None))
         if k == 1:
             parts.append("<h2>Figures</h2>")
-            for f in figures:
-                data = base64.b64encode(f.png).decode("ascii")
-                parts.append(f"<figure><img alt='{_e(f.caption)}' "
-                             f"src='data:image/png;base64,{data}'>"
-                             f"<figcaption>{_e(f.caption)}</figcaption></figure>")
+            parts.extend(_html_figure(f) for f in figures if f.name not in placed)
     parts.append("</body></html>")
     return "\n".join(parts)
 
 
-def markdown_report(result: CheckResult, figures: list[Figure], image_dir: str) -> str:
+def markdown_report(result: CheckResult, figures: list[Figure], image_dir: str,
+                    sweep: SweepOutcome | None = None, csv_name: str = "") -> str:
     """The same report as Markdown, its images in ``image_dir`` beside it."""
     out = [f"# stiff report: {result.case.title}", ""]
-    for k, sec in enumerate(sections(result)):
+    secs = sections(result, sweep, csv_name)
+    placed = {sec.figure for sec in secs}
+    for k, sec in enumerate(secs):
         out += [f"## {sec.title}", ""]
         if sec.title == "Cautions":
             out += [f"- {p}" for p in sec.paragraphs] + [""]
         else:
             for p in sec.paragraphs:
                 out += [p, ""]
+        out += [f"[{text}]({href})" for text, href in sec.links] + ([""] if sec.links else [])
+        out += [f"![{f.caption}]({image_dir}/{f.name}.png)" for f in figures
+                if sec.figure and f.name == sec.figure] + ([""] if sec.figure else [])
         if sec.head:
             out += [_md_table(list(sec.head), [list(r) for r in sec.rows]), ""]
         if k == 1:
             out += ["## Figures", ""]
-            out += [f"![{f.caption}]({image_dir}/{f.name}.png)" for f in figures] + [""]
+            out += [f"![{f.caption}]({image_dir}/{f.name}.png)" for f in figures
+                    if f.name not in placed] + [""]
     return "\n".join(out)
 
 
-def write_report(result: CheckResult, out_dir: Path) -> Path:
-    """report.html, report.md with figures/ beside it, and materials.csv in ``out_dir``."""
+def write_report(result: CheckResult, out_dir: Path, *,
+                 sweep: SweepOutcome | None = None) -> Path:
+    """report.html, report.md with figures/ beside it, and materials.csv in ``out_dir``.
+
+    With ``sweep``, its sections and Pareto plot too, linking its CSV when it was written in
+    ``out_dir`` (``sweep.csv_path``).
+    """
     figures = render_figures(result)
+    if sweep is not None:
+        figures.append(sweep_figure(sweep))
+    csv_name = ""
+    if sweep is not None and sweep.csv_path is not None:
+        csv_name = (sweep.csv_path.name if sweep.csv_path.parent == out_dir
+                    else sweep.csv_path.as_posix())
     image_dir = out_dir / "figures"
     image_dir.mkdir(parents=True, exist_ok=True)
     for f in figures:
         (image_dir / f"{f.name}.png").write_bytes(f.png)
-    (out_dir / "report.md").write_text(markdown_report(result, figures, "figures"),
-                                       encoding="utf-8")
+    (out_dir / "report.md").write_text(
+        markdown_report(result, figures, "figures", sweep, csv_name), encoding="utf-8")
     write_csv(out_dir / "materials.csv", material_rows(result))
     path = out_dir / "report.html"
-    path.write_text(html_report(result, figures), encoding="utf-8")
+    path.write_text(html_report(result, figures, sweep, csv_name), encoding="utf-8")
     return path
