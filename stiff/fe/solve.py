@@ -215,8 +215,8 @@ def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
     if fac.Kr.shape[-1] == 0:
         return np.full(Kg.shape[:-2], np.inf)
     W = _whitening(fac)[..., None, :, :]  # against the load-case axis
-    A = W @ -Kg @ np.swapaxes(W, -1, -2)
-    mu = np.linalg.eigvalsh(0.5 * (A + np.swapaxes(A, -1, -2)))
+    # symmetric to round-off; eigvalsh reads its lower triangle only
+    mu = np.linalg.eigvalsh(W @ -Kg @ np.swapaxes(W, -1, -2))
     top, low = mu[..., -1], mu[..., 0]
     scale = np.maximum(np.maximum(np.abs(low), np.abs(top)), 1e-300)
     buckles = top > 1e-12 * scale
