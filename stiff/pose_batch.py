@@ -27,10 +27,10 @@ from stiff.case_model import BODY, Case
 from stiff.checks import check_rows
 from stiff.checks.base import CheckRows
 from stiff.checks.context import CheckContext, LoadSet
-from stiff.errors import MechanismError
-from stiff.fe import FrameModel, compliance, node_dofs, preload_loads, solve_static, take
+from stiff.fe import FrameModel, compliance, node_dofs, preload_loads, solve_static
+from stiff.fe.sound import solve_static_sound
 from stiff.kinematics import Pose
-from stiff.landing import LandingResult, simulate_landing
+from stiff.landing import LandingResult, curve_arrays, simulate_landing, simulate_landings
 from stiff.linkage import part_index
 from stiff.loads import (
     LoadCase,
@@ -75,10 +75,10 @@ def spring_tension(case: Case, length_mm: FloatArray) -> FloatArray:
     for k, s in enumerate(case.springs):
         L = length_mm[:, k]
         if s.kind == "extension":
-            out[:, k] = np.where(L < s.free_length_mm, 0.0,
+            out[:, k] = np.where(s.free_length_mm > L, 0.0,
                                  s.initial_tension_N + s.rate_N_per_mm * (L - s.free_length_mm))
         else:
-            out[:, k] = np.where(L > s.free_length_mm, 0.0,
+            out[:, k] = np.where(s.free_length_mm < L, 0.0,
                                  -s.rate_N_per_mm * (s.free_length_mm - L))
     return out
 
@@ -125,36 +125,32 @@ def _unit_up(model: FrameModel, foot: int, direction: float) -> FloatArray:
     return loads
 
 
-def _responses_of(built: Built, model: FrameModel, direction: float
-                  ) -> list[Response]:
-    """Each pose's :data:`stiff.loads.Response` of a batched model (None where a mechanism)."""
-    dofs = node_dofs(model, built.foot, "uy")
-    driven = _driven(built)
-    try:
-        c = compliance(model, dofs)[..., 0, 0]
-        sol = solve_static(model, _unit_up(model, built.foot, direction))
-    except MechanismError:
-        return [_one_response(built, take(model, (p,)), direction)
-                for p in range(model.batch_shape[0])]
+def _responses_of(built: Built, model: FrameModel, direction: float) -> list[Response]:
+    """Each pose's :data:`stiff.loads.Response` of a batched model (None where a mechanism:
+    with its actuators yielded the leg holds nothing more)."""
+    sol, sound = solve_static_sound(model, _unit_up(model, built.foot, direction))
+    uy = sol.displacements[:, 0, built.foot, 1] * direction  # compliance: u_y per newton up
     torques = sol.connector_forces[:, 0, :, 5]
-    return [(float(c[p]), {a: float(torques[p, i]) for i, a in driven})
-            for p in range(c.shape[0])]
+    driven = _driven(built)
+    return [(float(uy[p]), {a: float(torques[p, i]) for i, a in driven}) if sound[p] else None
+            for p in range(uy.shape[0])]
 
 
-def _one_response(built: Built, model: FrameModel, direction: float) -> Response:
-    try:
-        c = float(compliance(model, node_dofs(model, built.foot, "uy"))[0, 0])
-        sol = solve_static(model, _unit_up(model, built.foot, direction))
-    except MechanismError:
-        return None
-    return c, {a: float(sol.connector_forces[0, i, 5]) for i, a in _driven(built)}
+@dataclass(frozen=True)
+class PoseLandings:
+    """The landing in each pose: the first pose's in full (for the load cases' descriptions)
+    and every pose's peak foot force [N]."""
+
+    first: LandingResult
+    peak_N: FloatArray  # (P,)
 
 
 def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[Pose],
-                  jacobians: Sequence[FloatArray]) -> list[LandingResult] | None:
+                  jacobians: Sequence[FloatArray]) -> PoseLandings | None:
     """The landing in each pose (as :func:`stiff.loads.landing` there), or None without a
     drop. The leg's response with each set of actuators yielded is solved for all poses at
-    once, only for the sets some pose's curve reaches."""
+    once, only for the sets some pose's curve reaches; the drops are simulated together
+    (``stiff.landing.simulate_landings``, of which `stiff check`'s is the one-leg case)."""
     drop = landing_mass(case)
     height = case.loads.drop_height_mm
     if drop is None or height is None:
@@ -172,11 +168,11 @@ def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[
 
     damping = landing_damping(case)
     pad = case.loads.foot_pad_N_per_mm
-    out = []
-    for p, (pose, jac) in enumerate(zip(poses, jacobians, strict=True)):
-        curve = curve_from_responses(case, pose, jac, pad, direction, response_at(p))
-        out.append(simulate_landing(mass, height, curve, damping))
-    return out
+    curves = [curve_from_responses(case, pose, jac, pad, direction, response_at(p))
+              for p, (pose, jac) in enumerate(zip(poses, jacobians, strict=True))]
+    starts, forces, slopes = curve_arrays(curves)
+    batch = simulate_landings(mass, height, starts, forces, slopes, damping)
+    return PoseLandings(simulate_landing(mass, height, curves[0], damping), batch.peak_N)
 
 
 @dataclass(frozen=True)
@@ -259,7 +255,7 @@ class PoseChecks:
     built: Built
     poses: tuple[Pose, ...]
     compliance_mm_per_N: FloatArray  # (P, 3, 3)
-    landings: tuple[LandingResult, ...] | None
+    landings: PoseLandings | None
     load_case_names: tuple[str, ...]
     rows: tuple[CheckRows, ...]
 
@@ -295,9 +291,9 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     land_poses, land_jac = landing_at if landing_at is not None else (poses, jacobians)
     land_models = models if landing_at is None else pose_models(case, built, land_poses)
     landings = pose_landings(case, built, land_models, land_poses, land_jac)
-    template = load_cases(case, built, landings[0] if landings else None)
+    template = load_cases(case, built, landings.first if landings else None)
     P = len(poses)
-    peaks = np.array([r.peak_N for r in landings]) if landings else np.zeros(P)
+    peaks = landings.peak_N if landings else np.zeros(P)
     impact = {k: np.stack(v, axis=-1) for k, v in impact_forces(case, peaks).items()}
     rest, hits = [], []
     for lc in template:
@@ -313,5 +309,5 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
     C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,
-                      landings=tuple(landings) if landings else None,
+                      landings=landings,
                       load_case_names=tuple(lc.name for lc in template), rows=rows)

@@ -163,7 +163,7 @@ def row_from_checked(index: int, values: tuple[Value, ...], checked: Checked,
         extruded_volume_cm3=amount.extruded_volume_cm3,
         print_time_min=amount.extruded_volume_cm3 / CM3_PER_MM3 / rate_mm3_per_s / 60.0,
         vertical_mm_per_N=float(C[1, 1]),
-        principal_mm_per_N=float(np.linalg.eigvalsh(C)[-1]),
+        principal_mm_per_N=float(np.linalg.eigh(C)[0].max()),  # as foot_stiffness
         lateral_mm_per_N=float(C[2, 2]), min_factor=low, min_factor_check=low_check,
         worst_utilisation=worst, all_met=met, not_met=tuple(missing))
 

@@ -42,6 +42,7 @@ from pathlib import Path
 import numpy as np
 import numpy.typing as npt
 
+from stiff.batched import check_variant, grid_geometry
 from stiff.case_model import Case
 from stiff.check import run_check
 from stiff.errors import PoseError, StiffError
@@ -163,6 +164,45 @@ def evaluate_pose(case: Case, index: int, angles_rad: tuple[float, ...]) -> Pose
         result.pose.singularity)
 
 
+def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]]
+                   ) -> list[PoseRow]:
+    """Grid poses checked together through the batched path (``stiff.batched``): the same
+    rows as :func:`evaluate_pose` of each, in one pass. When the batch cannot be solved as a
+    whole (a pose where the linkage is a mechanism), each pose is evaluated alone."""
+    grid = [angles for _, angles in items]
+    try:
+        geometry = grid_geometry(pose_case(case, grid[0]), grid)
+        if not geometry.poses:
+            checked = None
+        else:
+            at = pose_case(case, grid[geometry.reached[0]])
+            checked = check_variant(at, geometry)
+    except StiffError:
+        return [evaluate_pose(case, k, angles) for k, angles in items]
+    nan = math.nan
+    rows = {i: PoseRow(items[i][0], items[i][1], False, nan, nan, nan, nan, nan, "", nan,
+                       why=why) for i, why in geometry.why.items()}
+    if checked is not None:
+        pc = checked.checks
+        names = [*MAP_LOAD_CASES, pc.load_case_names[0]]
+        low, which = pc.lowest(names)
+        foot = geometry.link.node_names.index(case.foot)
+        for p, i in enumerate(geometry.reached):
+            xy = pc.poses[p].node_xy_mm[foot]
+            row = which[p]
+            C = pc.compliance_mm_per_N[p]
+            rows[i] = PoseRow(
+                items[i][0], items[i][1], True, float(xy[0]), float(xy[1]), float(C[1, 1]),
+                float(C[2, 2]), float(low[p]),
+                "" if row is None else f"{row.item}: {row.mode} ({row.load_case})",
+                pc.poses[p].singularity)
+    return [rows[i] for i in range(len(items))]
+
+
+#: Grid poses checked together in one batch (and handed to a worker at a time).
+POSES_PER_BATCH = 8
+
+
 def workspace_map(case: Case, steps: int = DEFAULT_STEPS,
                   progress: Callable[[int], None] | None = None,
                   workers: int = WORKERS,
@@ -174,17 +214,22 @@ def workspace_map(case: Case, steps: int = DEFAULT_STEPS,
     case : the case
     steps : angles per mapped actuator [-]
     progress : called with the number of poses just finished
-    workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` poses
+    workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` batches
     poses : the poses' angles [rad] (every actuator, the case's order) instead of the angle
         grid, as :func:`grid_targets` gives them; the map's shape is then left to the caller
     """
     mapped, held, grid = grid_angles(case, steps) if poses is None else _given(case, poses)
-    rows = map_items(partial(_evaluate_item, case), list(enumerate(grid)), workers, progress)
+    items = list(enumerate(grid))
+    batches = [items[a:a + POSES_PER_BATCH] for a in range(0, len(items), POSES_PER_BATCH)]
+
+    def done(n: int) -> None:  # n batches finished; all but the last are full
+        if progress is not None:
+            progress(n * POSES_PER_BATCH)
+
+    parts = map_items(partial(evaluate_poses, case), batches, workers,
+                      None if progress is None else done)
+    rows = [r for part in parts for r in part]
     return WorkspaceMap(mapped, held, (steps,) * len(mapped), tuple(rows))
-
-
-def _evaluate_item(case: Case, item: tuple[int, tuple[float, ...]]) -> PoseRow:
-    return evaluate_pose(case, item[0], item[1])
 
 
 def write_map_csv(path: Path, case: Case, result: WorkspaceMap) -> Path:

@@ -183,7 +183,7 @@ class JointForce:
 
 def joint_connectors(built: Built, joint: Joint) -> list[tuple[int, str, str]]:
     """(connector index, part a, part b) of every connector of a joint, in its parts' order."""
-    out = []
+    out: list[tuple[int, str, str]] = []
     for i, name in enumerate(built.connector_joint):
         if name == joint.name:
             k = len(out)

@@ -1,0 +1,38 @@
+"""Static solves of a batch in which some models may be mechanisms.
+
+``solve_static`` raises MechanismError when any model of a batch is singular, naming its free
+DOFs; that is right for a case, whose model must hold. A landing estimate asks instead how
+each pose of a leg responds once its actuators yield, and with all of them yielded most legs are
+mechanisms in every pose: there the answer is "no stiffness left", not an error. This solve
+returns every model's solution with a flag per model, garbage (NaN) where the flag is False.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from stiff.fe.linalg import spd_solve
+from stiff.fe.model import BoolArray, FloatArray, FrameModel
+from stiff.fe.results import Solution, recover
+from stiff.fe.solve import _loads_matrix, _reduced
+
+
+def solve_static_sound(model: FrameModel, loads: FloatArray) -> tuple[Solution, BoolArray]:
+    """(solution, sound) of every load case of a batch of models (see the module docstring).
+
+    ``loads`` as for ``solve_static``; ``sound`` has the model's batch shape, True where the
+    model holds (its solution is then the one ``solve_static`` gives).
+    """
+    F = _loads_matrix(model, loads)
+    fac = _reduced(model)
+    red = fac.red
+    q, ok = spd_solve(fac.Kr, red.project_rhs(np.swapaxes(F, -1, -2)))
+    q = np.where(ok[..., None, None], q, np.nan)
+    u_free = q if red.T is None else red.T @ q
+    u_ordered = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))
+    u_ordered[..., : red.free.size] = np.swapaxes(u_free, -1, -2)
+    U = u_ordered.take(red.position, axis=-1)
+    KU = np.swapaxes(fac.K_cols @ u_free, -1, -2).take(red.position, axis=-1)
+    if F.shape != U.shape:
+        F, U = np.broadcast_arrays(F, U)
+    return recover(model, U, F, KU, fac.mats), ok
