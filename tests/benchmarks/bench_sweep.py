@@ -1,4 +1,4 @@
-"""Benchmark of design sweeps and workspace maps through the full `stiff check` path.
+"""Benchmark of design sweeps and workspace maps: one `stiff check` against the batched path.
 
 Run from the repository root::
 
@@ -14,7 +14,10 @@ It prints, for the case:
   on this path (every variant-pose is one full check, which runs all of the case's load cases,
   more than 4), and how far that is from the 20 s target;
 * where one check spends its time (cProfile, cumulative seconds of each stage);
-* the batched engine's compliance alone: 50 poses of one variant stacked into one call.
+* the batched engine's compliance alone: 50 poses of one variant stacked into one call;
+* the batched path (``stiff.batched``): one variant checked in 50 poses at once (every load
+  case and check), a sweep of the same variants in 50 poses each on ``--workers`` processes,
+  and the target run extrapolated from it.
 
 BLAS threads: sweeps and maps limit numpy's BLAS to one thread themselves (``stiff.pool``);
 the script also starts numpy on one thread unless the environment says otherwise, so that the
@@ -40,6 +43,7 @@ import pstats  # noqa: E402
 import time  # noqa: E402
 from pathlib import Path  # noqa: E402
 
+from stiff.batched import case_geometry, check_variant  # noqa: E402
 from stiff.build import build  # noqa: E402
 from stiff.case import load_case  # noqa: E402
 from stiff.check import run_check  # noqa: E402
@@ -147,5 +151,38 @@ def main() -> None:
           "cores")
 
 
+def batched(case_path: Path, walls: str, infill: str, workers: int) -> None:
+    """Time the batched path: one variant in 50 poses, and a sweep in 50 poses a variant."""
+    case = load_case(case_path)
+    _, _, grid = grid_angles(case, 7)  # 49 grid poses + the case's own = 50
+    t0 = time.perf_counter()
+    geometry = case_geometry(case, grid)
+    geo_s = time.perf_counter() - t0
+    check_variant(case, geometry)  # warm the section cache
+    t0 = time.perf_counter()
+    check_variant(case, geometry)
+    one = time.perf_counter() - t0
+    n = len(geometry.poses)
+    print(f"batched path: poses solved once {geo_s:.2f} s ({n} poses); one variant in {n} "
+          f"poses {one:.3f} s = {one / n * 1e3:.1f} ms a variant-pose, every load case")
+    variables = parse_specs(case, [f"*.walls={walls}", f"*.infill={infill}"])
+    run_sweep(case, variables, workers=1)  # sections of every variant into the cache
+    t0 = time.perf_counter()
+    rows = run_sweep(case, variables, workers=workers, poses=grid)
+    sweep_s = time.perf_counter() - t0
+    rate = len(rows) / sweep_s
+    full = 1000 / rate
+    print(f"batched sweep: {len(rows)} variants x {n} poses on {workers} workers in "
+          f"{sweep_s:.2f} s = {rate:.2f} variants/s; target run 1,000 variants x 50 poses ~"
+          f"{full:.0f} s, {full / TARGET_S:.0f}x the {TARGET_S:g} s target")
+
+
 if __name__ == "__main__":
     main()
+    _args = argparse.ArgumentParser(add_help=False)
+    _args.add_argument("--case", type=Path, default=Path("cases/five_bar_leg.toml"))
+    _args.add_argument("--walls", default="2,3,4,5")
+    _args.add_argument("--infill", default="20,40")
+    _args.add_argument("--workers", type=int, default=2)
+    _known, _ = _args.parse_known_args()
+    batched(_known.case, _known.walls, _known.infill, _known.workers)
