@@ -144,8 +144,9 @@ def compare(mass: float, height: float, curve: ForceCurve, zeta: float) -> None:
     got = batch_of(mass, height, curve, zeta)
     # the oracle integrates to rtol 1e-12 per stage; its event location is the limit
     assert got.peak_N[0] == pytest.approx(ref.peak_N, rel=1e-8)
-    if math.isinf(got.time_stop_s[0]) and got.stopped[0]:  # settles without stopping
-        # the oracle is still creeping towards the rest position at its horizon
+    if got.stopped[0] and not ref.stopped:
+        # settling without stopping (or stopping after an overshoot too small for the
+        # integrator's tolerance): the oracle still creeps towards the rest position
         assert ref.stroke_mm <= got.stroke_mm[0] * (1 + 1e-9)
         assert ref.last_stage == got.last_stage[0]
         return
