@@ -286,13 +286,15 @@ _RATE = click.option(
 
 
 def _sweep(case: Case, specs: tuple[str, ...], rate: float, prefer: str, out_dir: Path | None,
-           hidden: bool) -> SweepOutcome:
-    """The sweep of ``specs`` over ``case``, with sweep.csv and sweep.png in ``out_dir``."""
+           hidden: bool, map_steps: int | None = None) -> SweepOutcome:
+    """The sweep of ``specs`` over ``case``, with sweep.csv and sweep.png in ``out_dir``;
+    with ``map_steps`` every variant is also checked over the map's grid of poses."""
     chosen: Prefer = "time" if prefer == "time" else "mass"
     variables = parse_specs(case, specs)
+    poses = grid_angles(case, map_steps)[2] if map_steps is not None else []
     with click.progressbar(length=variant_count(variables), label="variants",
                            file=sys.stderr, hidden=hidden or not sys.stderr.isatty()) as bar:
-        rows = run_sweep(case, variables, rate, progress=bar.update)
+        rows = run_sweep(case, variables, rate, progress=bar.update, poses=poses)
     outcome = sweep_outcome(case, variables, rows, chosen)
     if out_dir is None:
         return outcome
@@ -385,18 +387,22 @@ def _save(ax: typing.Any, path: Path) -> Path:
               help="Folder to write sweep.csv and sweep.png into (made if missing).")
 @_PREFER
 @_RATE
+@click.option("--map-steps", "map_steps", type=click.IntRange(min=2, max=21), default=None,
+              help="Also check every variant in the poses of `stiff map --steps N` (N x N for "
+              "two actuators); its factors are then the lowest over its own pose and those.")
 @click.pass_context
 def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: Path,
-          prefer: str, rate: float) -> None:
+          prefer: str, rate: float, map_steps: int | None) -> None:
     """Check every combination of print settings, tube sizes and case values of CASE_FILE.
 
     Writes sweep.csv (one line per variant) and sweep.png (mass against compliance, Pareto
     front), and prints the recommended variant with its governing checks and the
-    sensitivities. Exit code 1 when no variant meets every check and target.
+    sensitivities. Exit code 1 when no variant meets every check and target. Compliance is
+    the foot's in the case's own pose; with --map-steps the factors cover the map's poses too.
     """
     try:
         _check_case_path(case_file)
-        outcome = _sweep(load_case(case_file), specs, rate, prefer, out_dir, False)
+        outcome = _sweep(load_case(case_file), specs, rate, prefer, out_dir, False, map_steps)
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:

@@ -12,13 +12,17 @@ from pathlib import Path
 
 import numpy as np
 import pytest
+from click.testing import CliRunner
 
 from stiff import CASES_DIR
 from stiff.batched import case_geometry, check_variant, grid_geometry
 from stiff.case import load_case
 from stiff.check import CheckResult, run_check
 from stiff.checks.base import CheckRecord, expand
-from stiff.workspace import grid_angles, pose_case
+from stiff.cli import cli
+from stiff.sweep import run_sweep
+from stiff.sweep_spec import parse_specs
+from stiff.workspace import evaluate_pose, evaluate_poses, grid_angles, pose_case
 
 DEMOS = sorted(CASES_DIR.glob("*.toml"))
 REL = 1e-9
@@ -76,3 +80,45 @@ def test_poses_checked_together_give_each_pose_alone(path: Path) -> None:
         _same_records(mine, full, _scale(full))
         assert np.allclose(checked.checks.compliance_mm_per_N[p],
                            full.stiffness.compliance_mm_per_N, rtol=REL, atol=0.0)
+
+
+def test_map_batches_give_the_rows_of_each_pose_alone() -> None:
+    """`stiff map`'s batched rows equal `stiff check` of each grid pose taken alone
+    (evaluate_pose), unreachable poses included."""
+    case = load_case(CASES_DIR / "camera_arm.toml")
+    _, _, grid = grid_angles(case, 3)
+    items = list(enumerate(grid))
+    together = evaluate_poses(case, items)
+    for row, (k, angles) in zip(together, items, strict=True):
+        alone = evaluate_pose(case, k, angles)
+        assert row.reachable == alone.reachable
+        if not row.reachable:
+            continue
+        assert row.min_factor_check == alone.min_factor_check
+        for name in ("foot_x_mm", "foot_y_mm", "vertical_mm_per_N", "lateral_mm_per_N",
+                     "min_factor", "singularity"):
+            assert math.isclose(getattr(row, name), getattr(alone, name), rel_tol=REL,
+                                abs_tol=1e-12), name
+
+
+def test_more_poses_never_raise_a_variants_lowest_factor() -> None:
+    """Checking each variant in the map's poses too can only lower (or keep) its minimum
+    factor and keep its compliance, which is the case's own pose's."""
+    case = load_case(CASES_DIR / "camera_arm.toml")
+    variables = parse_specs(case, ["*.walls=2,4"])
+    alone = run_sweep(case, variables, workers=1)
+    _, _, grid = grid_angles(case, 3)
+    wider = run_sweep(case, variables, workers=1, poses=grid)
+    for a, b in zip(alone, wider, strict=True):
+        assert b.min_factor <= a.min_factor
+        assert b.vertical_mm_per_N == pytest.approx(a.vertical_mm_per_N, rel=REL)
+
+
+def test_sweep_command_over_the_map_poses(tmp_path: Path) -> None:
+    """`stiff sweep --map-steps` runs and writes its variants."""
+    out = tmp_path / "out"
+    result = CliRunner().invoke(cli, ["sweep", str(CASES_DIR / "camera_arm.toml"), "--vary",
+                                      "lower_arm.walls=2,3", "--map-steps", "2", "--out",
+                                      str(out)])
+    assert result.exit_code in (0, 1), result.output
+    assert (out / "sweep.csv").read_text(encoding="utf-8").count("\n") == 3
