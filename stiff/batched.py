@@ -120,32 +120,44 @@ def check_variant(case: Case, geometry: Geometry) -> Checked:
     return Checked(checks, built, play_met)
 
 
-def governing_rows(rows: Sequence[CheckRows], entries: Sequence[int] | None = None
-                   ) -> list[tuple[CheckRows, int, float]]:
-    """The governing check of each item over the given entries (poses; all by default):
-    (row, entry, utilisation), worst first."""
-    best: dict[str, tuple[CheckRows, int, float]] = {}
-    for r in rows:
-        u = r.utilisations
-        if entries is not None:
-            picked = np.asarray(entries, np.intp)
-            k = int(picked[np.argmax(u[picked])])
-        else:
-            k = int(np.argmax(u))
-        if r.item not in best or u[k] > best[r.item][2]:
-            best[r.item] = (r, k, float(u[k]))
-    return sorted(best.values(), key=lambda t: -t[2])
+def governing_rows(checks: PoseChecks) -> list[tuple[CheckRows, int, float]]:
+    """The governing check of each item over every pose: (row, pose, utilisation), worst
+    first; ties go to the first row and pose, as `stiff check`'s ``governing`` does."""
+    U = checks.utilisations
+    if not U.size:
+        return []
+    row_max = U.max(axis=1)
+    row_at = U.argmax(axis=1)
+    by_item: dict[str, list[int]] = {}
+    for i, r in enumerate(checks.rows):
+        by_item.setdefault(r.item, []).append(i)
+    best = []
+    for rows in by_item.values():
+        i = rows[int(np.argmax(row_max[rows]))]
+        best.append((checks.rows[i], int(row_at[i]), float(row_max[i])))
+    return sorted(best, key=lambda t: -t[2])
 
 
-def not_met(rows: Sequence[CheckRows]) -> list[str]:
+def not_met(checks: PoseChecks) -> list[str]:
     """Each item whose governing check misses its required factor, as one phrase."""
     out = []
-    for r, k, _ in governing_rows(rows):
+    for r, k, _ in governing_rows(checks):
         sf = float(r.safety_factors[k])
         if sf < r.required_factor:
             out.append(f"{r.item}: {r.mode} ({r.load_case}) factor {sf:.3g} < "
                        f"{r.required_factor:g}")
     return out
+
+
+def all_met(checks: PoseChecks) -> bool:
+    """True when every check reaches its required factor in every pose."""
+    return bool(np.all(checks.factors >= checks.required[:, None]))
+
+
+def worst_utilisation(checks: PoseChecks) -> float:
+    """The largest required over actual factor of any check in any pose (0: none)."""
+    U = checks.utilisations
+    return float(U.max()) if U.size else 0.0
 
 
 def lowest_check(checks: PoseChecks, load_cases: Sequence[str] | None = None

@@ -15,6 +15,7 @@ play targets, see :func:`stiff.sweep`), and the check warnings.
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
@@ -259,18 +260,41 @@ class PoseChecks:
     load_case_names: tuple[str, ...]
     rows: tuple[CheckRows, ...]
 
+    @functools.cached_property
+    def factors(self) -> FloatArray:
+        """(rows, P) every row's safety factor in every pose (∞ where it does not apply)."""
+        if not self.rows:
+            return np.zeros((0, len(self.poses)))
+        return np.stack([r.safety_factors for r in self.rows])
+
+    @functools.cached_property
+    def required(self) -> FloatArray:
+        """(rows,) every row's required factor."""
+        return np.array([r.required_factor for r in self.rows], float)
+
+    @functools.cached_property
+    def utilisations(self) -> FloatArray:
+        """(rows, P) required over actual factor (0 where the factor is ∞)."""
+        sf = self.factors
+        out = np.zeros(sf.shape)
+        np.divide(self.required[:, None], sf, out=out, where=np.isfinite(sf))
+        return out
+
     def lowest(self, load_cases: Sequence[str] | None = None
                ) -> tuple[FloatArray, list[CheckRows | None]]:
         """(P,) the minimum safety factor in each pose over the checks of ``load_cases``
-        (every load case by default), and the row that gives it (None: no check)."""
-        chosen = [r for r in self.rows if load_cases is None or r.load_case in load_cases]
+        (every load case by default), and the row that gives it (None: no check); ties go
+        to the first row, as `stiff check`'s records are ordered."""
         P = len(self.poses)
-        if not chosen:
+        picked = np.array([load_cases is None or r.load_case in load_cases
+                           for r in self.rows], bool)
+        if not picked.any():
             return np.full(P, math.inf), [None] * P
-        sf = np.stack([r.safety_factors for r in chosen])
+        index = np.flatnonzero(picked)
+        sf = self.factors[index]
         at = np.argmin(sf, axis=0)
         low = sf[at, np.arange(P)]
-        return low, [chosen[int(k)] if math.isfinite(low[p]) else None
+        return low, [self.rows[int(index[k])] if math.isfinite(low[p]) else None
                      for p, k in enumerate(at)]
 
 

@@ -41,11 +41,13 @@ import numpy as np
 from stiff.batched import (
     Checked,
     Geometry,
+    all_met,
     case_geometry,
     check_variant,
     geometry_key,
     lowest_check,
     not_met,
+    worst_utilisation,
 )
 from stiff.build import Built
 from stiff.case_model import Case
@@ -152,11 +154,9 @@ def row_from_checked(index: int, values: tuple[Value, ...], checked: Checked,
     amount = amounts(pc.case, checked.built)
     C = pc.compliance_mm_per_N[0]
     low, low_check = lowest_check(pc)
-    rows = pc.rows
-    worst = max((float(r.utilisations.max()) for r in rows if r.size), default=0.0)
-    met = checked.play_met and all(bool(np.all(r.safety_factors >= r.required_factor))
-                                   for r in rows)
-    missing = not_met(rows) + ([] if checked.play_met else ["a play target"])
+    worst = worst_utilisation(pc)
+    met = checked.play_met and all_met(pc)
+    missing = not_met(pc) + ([] if checked.play_met else ["a play target"])
     return VariantRow(
         index=index, values=values, mass_g=amount.mass_g,
         printed_volume_cm3=amount.printed_volume_cm3,
