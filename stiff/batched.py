@@ -109,10 +109,16 @@ class Checked:
     play_met: bool
 
 
-def check_variant(case: Case, geometry: Geometry) -> Checked:
-    """Build the case in its pose and check it in every pose of ``geometry``."""
+def check_variant(case: Case, geometry: Geometry, screen: bool = True) -> Checked:
+    """Build the case in its pose and check it in every pose of ``geometry``.
+
+    ``screen``: the frame's buckling factor only where it can decide a pose's results (its
+    rows elsewhere hold a lower bound; ``stiff.checks.check_rows``): the lowest factors, worst
+    utilisation and misses are those of the full solve.
+    """
     built = build(case, geometry.poses[0])
-    checks = check_poses(case, built, geometry.poses, geometry.jacobians, geometry.landing)
+    checks = check_poses(case, built, geometry.poses, geometry.jacobians, geometry.landing,
+                         screen=screen)
     t = case.targets
     play_met = True
     if t.max_play_mm is not None or t.max_lateral_play_mm is not None:

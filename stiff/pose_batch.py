@@ -300,8 +300,8 @@ class PoseChecks:
 
 def check_poses(case: Case, built: Built, poses: Sequence[Pose],
                 jacobians: Sequence[FloatArray],
-                landing_at: tuple[Sequence[Pose], Sequence[FloatArray]] | None = None
-                ) -> PoseChecks:
+                landing_at: tuple[Sequence[Pose], Sequence[FloatArray]] | None = None,
+                screen: bool = False) -> PoseChecks:
     """Check the case built as ``built`` in every one of ``poses`` at once.
 
     Parameters
@@ -310,6 +310,8 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     poses : the poses to check; ``jacobians`` their foot Jacobians [mm/rad]
     landing_at : the poses (and Jacobians) the landing and slips are taken in, one per pose
         (a case with a landing pose of its own); by default each pose itself
+    screen : solve the frame's buckling factor only where it can decide a pose's results
+        (``stiff.checks.check_rows``); its rows elsewhere hold a lower bound
     """
     models = pose_models(case, built, poses)
     land_poses, land_jac = landing_at if landing_at is not None else (poses, jacobians)
@@ -329,7 +331,7 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     sets = solve_sets(case, built, models, rest)
     sets.update(solve_sets(case, built, land_models, hits))
     ordered = tuple(sets[lc.name] for lc in template)
-    rows = check_rows(CheckContext(case, built, ordered))
+    rows = check_rows(CheckContext(case, built, ordered), screen=screen)
     C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
     C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,

@@ -15,10 +15,17 @@ import pytest
 from click.testing import CliRunner
 
 from stiff import CASES_DIR
-from stiff.batched import case_geometry, check_variant, grid_geometry
+from stiff.batched import (
+    all_met,
+    case_geometry,
+    check_variant,
+    grid_geometry,
+    not_met,
+    worst_utilisation,
+)
 from stiff.case import load_case
 from stiff.check import CheckResult, run_check
-from stiff.checks.base import CheckRecord, expand
+from stiff.checks.base import CheckRecord, CheckRows, expand
 from stiff.cli import cli
 from stiff.sweep import run_sweep
 from stiff.sweep_spec import parse_specs
@@ -54,7 +61,7 @@ def test_one_pose_gives_the_records_of_stiff_check(path: Path) -> None:
     """The case's own pose through the batched path: every record of `stiff check`."""
     case = load_case(path)
     full = run_check(case)
-    checked = check_variant(case, case_geometry(case))
+    checked = check_variant(case, case_geometry(case), screen=False)
     _same_records(expand(checked.checks.rows), full, _scale(full))
     C = checked.checks.compliance_mm_per_N[0]
     assert np.allclose(C, full.stiffness.compliance_mm_per_N, rtol=REL, atol=0.0)
@@ -72,7 +79,8 @@ def test_poses_checked_together_give_each_pose_alone(path: Path) -> None:
     _, _, grid = grid_angles(case, 3)
     chosen = grid[::3][:3]
     geometry = grid_geometry(case, chosen)
-    checked = check_variant(pose_case(case, tuple(chosen[geometry.reached[0]])), geometry)
+    checked = check_variant(pose_case(case, tuple(chosen[geometry.reached[0]])), geometry,
+                            screen=False)
     rows = checked.checks.rows
     for p, k in enumerate(geometry.reached):
         full = run_check(pose_case(case, tuple(chosen[k])))
@@ -122,3 +130,31 @@ def test_sweep_command_over_the_map_poses(tmp_path: Path) -> None:
                                       str(out)])
     assert result.exit_code in (0, 1), result.output
     assert (out / "sweep.csv").read_text(encoding="utf-8").count("\n") == 3
+
+
+@pytest.mark.parametrize("path", DEMOS, ids=lambda p: p.stem)
+def test_screening_the_frame_buckling_keeps_every_result(path: Path) -> None:
+    """With the frame's buckling factor solved only where it can matter, each pose's lowest
+    factor (over all load cases and over the map's), the worst utilisation, whether all is
+    met and the misses are those of the full solve; screened factors are lower bounds."""
+    case = load_case(path)
+    _, _, grid = grid_angles(case, 3)
+    geometry = case_geometry(case, grid)
+    full = check_variant(case, geometry, screen=False).checks
+    fast = check_variant(case, geometry, screen=True).checks
+    assert [_key_rows(r) for r in fast.rows] == [_key_rows(r) for r in full.rows]
+    assert np.all(fast.factors <= full.factors * (1 + REL))  # round-off of a smaller batch
+    subsets = (None, ("stance", "payload", "landing", full.load_case_names[0]))
+    for names in subsets:
+        low_full, which_full = full.lowest(names)
+        low_fast, which_fast = fast.lowest(names)
+        assert np.allclose(low_fast, low_full, rtol=REL, atol=0.0)
+        assert [None if r is None else _key_rows(r) for r in which_full] == [
+            None if r is None else _key_rows(r) for r in which_fast]
+    assert math.isclose(worst_utilisation(fast), worst_utilisation(full), rel_tol=REL)
+    assert all_met(fast) == all_met(full)
+    assert not_met(fast) == not_met(full)
+
+
+def _key_rows(r: CheckRows) -> tuple[str, str, str]:
+    return (r.item, r.mode, r.load_case)

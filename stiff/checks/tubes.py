@@ -43,10 +43,14 @@ from stiff.case_model import Case, Part
 from stiff.checks.base import CheckRows, FloatArray, Text
 from stiff.checks.context import CheckContext, LoadSet, MemberForces, member_forces
 from stiff.checks.spans import End, EndKind, Span, node_xy, spans
-from stiff.fe import Solution, buckling_factors
+from stiff.fe import FrameModel, Solution, buckling_factors
+from stiff.fe.batch import pick
+from stiff.fe.buckling_bound import buckling_lower_bounds
 from stiff.materials import MetalMaterial, TubeMaterial
 from stiff.strength import ROOM_TEMPERATURE_C, Allowable, metal_strength
 
+#: The mode of the frame's linear buckling rows.
+FRAME_MODE = "linear buckling (frame)"
 ShellMode = Literal["axial", "bending"]
 Sense = Literal["tension", "compression"]
 
@@ -430,12 +434,17 @@ def _same(a: object, b: object) -> bool:
     return bool(a == b)
 
 
-def frame_buckling_factors(loads: Sequence[LoadSet]) -> list[FloatArray]:
+def frame_buckling_factors(loads: Sequence[LoadSet],
+                           cutoffs: Sequence[FloatArray] | None = None) -> list[FloatArray]:
     """(B,) load factor λ at which each load set buckles the frame (``inf``: never), per set.
 
     Load sets solved on the same model (the load cases `stiff check` solves together, or
     equal models of other sets) are analysed in one call, so the stiffness is assembled and
     factored once for all of them.
+
+    With ``cutoffs`` ((B,) per set, sweeps and maps), λ is solved only in the poses where its
+    lower bound (``stiff.fe.buckling_bound``) is below the cutoff; elsewhere the bound is
+    returned, which is then known to be at or below λ and at or above the cutoff.
     """
     groups: list[list[int]] = []
     for k, s in enumerate(loads):
@@ -451,10 +460,24 @@ def frame_buckling_factors(loads: Sequence[LoadSet]) -> list[FloatArray]:
         solution = Solution(**{
             name: np.concatenate([getattr(loads[k].solution, name) for k in members], axis=axis)
             for name in Solution.__dataclass_fields__})
-        lam = buckling_factors(model, solution).reshape(-1, len(members))
+        if cutoffs is None or axis != 1:
+            lam = buckling_factors(model, solution).reshape(-1, len(members))
+        else:
+            lam = _screened(model, solution, np.stack([cutoffs[k] for k in members], axis=-1))
         for j, k in enumerate(members):
             out[k] = lam[:, j]
     return [out[k] for k in range(len(loads))]
+
+
+def _screened(model: FrameModel, solution: Solution, cutoff: FloatArray) -> FloatArray:
+    """(B, c) λ where its lower bound is below ``cutoff`` (B, c), the bound elsewhere."""
+    lam: FloatArray = buckling_lower_bounds(model, solution)
+    need = np.flatnonzero((lam < cutoff).any(axis=1))
+    if need.size:
+        part = Solution(**{name: getattr(solution, name)[need]
+                           for name in Solution.__dataclass_fields__})
+        lam[need] = buckling_factors(pick(model, need), part)
+    return lam
 
 
 def _frame_basis(lam: FloatArray, lowest: FloatArray) -> Text:
@@ -489,7 +512,7 @@ def _frame_rows(ctx: CheckContext, loads: LoadSet, lam: FloatArray, tubes: Seque
     live = np.isfinite(lowest) & np.isfinite(lam)
     basis = _frame_basis(lam, lowest)
     return [CheckRows(
-        item=tube.part.name, kind="tube", mode="linear buckling (frame)", load_case=loads.name,
+        item=tube.part.name, kind="tube", mode=FRAME_MODE, load_case=loads.name,
         demand=np.ones(lam.shape), capacity=lam, unit="-",
         required_factor=ctx.required("buckling"), basis=basis,
         suggestion="stiffen the members in compression or their joints",
@@ -522,14 +545,27 @@ def _tubes(ctx: CheckContext) -> list[_Tube]:
     return [_tube(ctx, p) for p in ctx.case.parts if p.kind == "tube"]
 
 
-def checks(ctx: CheckContext) -> list[CheckRows]:
-    """Every tube in every load set: stress, Euler, frame buckling, local buckling."""
+def checks(ctx: CheckContext, cutoffs: Sequence[FloatArray] | None = None) -> list[CheckRows]:
+    """Every tube in every load set: stress, Euler, frame buckling, local buckling.
+
+    ``cutoffs`` ((B,) per load set) screen the frame's buckling factor as
+    :func:`frame_buckling_factors` says (sweeps and maps); by default it is solved everywhere.
+    """
     tubes = _tubes(ctx)
     if not tubes:
         return []
-    lams = frame_buckling_factors(ctx.loads)
+    lams = frame_buckling_factors(ctx.loads, cutoffs)
     return [row for loads, lam in zip(ctx.loads, lams, strict=True)
             for row in _load_set_rows(ctx, loads, lam, tubes)]
+
+
+def without_frame(ctx: CheckContext) -> list[CheckRows]:
+    """The tube checks of every load set except the frame's buckling (for its cutoffs)."""
+    tubes = _tubes(ctx)
+    none = [np.full(s.size, np.inf) for s in ctx.loads]
+    return [row for loads, lam in zip(ctx.loads, none, strict=True)
+            for row in _load_set_rows(ctx, loads, lam, tubes)
+            if row.mode != FRAME_MODE]
 
 
 def warnings(ctx: CheckContext) -> list[str]:

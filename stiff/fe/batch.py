@@ -7,6 +7,7 @@ from collections.abc import Sequence
 from dataclasses import replace
 
 import numpy as np
+import numpy.typing as npt
 
 from stiff.errors import ModelError
 from stiff.fe.model import Beams, FloatArray, FrameModel, Springs
@@ -86,6 +87,26 @@ def flat_slice(model: FrameModel, batch: tuple[int, ...], start: int, stop: int)
         item = a.shape[a.ndim - tail:]
         full = np.broadcast_to(a, (*batch, *item))
         return full.reshape(batch_size(batch), *item)[start:stop]
+
+    b, c, s = model.beams, model.connectors, model.springs
+    beams = Beams(nodes=b.nodes, E=cut(b.E, 1), G=cut(b.G, 1), A=cut(b.A, 1), Iy=cut(b.Iy, 1),
+                  Iz=cut(b.Iz, 1), J=cut(b.J, 1), Asy=cut(b.Asy, 1), Asz=cut(b.Asz, 1),
+                  ref=cut(b.ref, 2), releases=b.releases, names=b.names)
+    conns = replace(c, stiffness=cut(c.stiffness, 2), frame=cut(c.frame, 3))
+    springs = replace(s, rate=cut(s.rate, 1), tension=cut(s.tension, 1))
+    return replace(model, xyz=cut(model.xyz, 2), beams=beams, connectors=conns,
+                   springs=springs, ground=cut(model.ground, 2))
+
+
+def pick(model: FrameModel, index: npt.ArrayLike) -> FrameModel:
+    """The models at ``index`` (indices into a one-axis batch), as a batch (len(index),)."""
+    batch = model.batch_shape
+    if len(batch) != 1:
+        raise ModelError(f"pick needs a batch of one axis, got {batch}")
+    at = np.asarray(index, np.intp)
+
+    def cut(a: FloatArray, tail: int) -> FloatArray:
+        return np.broadcast_to(a, (*batch, *a.shape[a.ndim - tail:]))[at]
 
     b, c, s = model.beams, model.connectors, model.springs
     beams = Beams(nodes=b.nodes, E=cut(b.E, 1), G=cut(b.G, 1), A=cut(b.A, 1), Iy=cut(b.Iy, 1),
