@@ -56,14 +56,18 @@ def frame_cutoffs(ctx: CheckContext, rows: list[CheckRows]) -> list[FloatArray]:
     three is not the lowest, not the worst utilisation and is met.
     """
     required = ctx.required("buckling")
+    by_case: dict[str, list[CheckRows]] = {}
+    for r in rows:
+        by_case.setdefault(r.load_case, []).append(r)
     out = []
     for loads in ctx.loads:
-        mine = [r for r in rows if r.load_case == loads.name]
+        mine = by_case.get(loads.name, [])
         if not mine:
             out.append(np.full(loads.size, np.inf))
             continue
         sf = np.stack([r.safety_factors for r in mine])
-        util = np.stack([r.utilisations for r in mine]).max(axis=0)
+        need = np.array([r.required_factor for r in mine])[:, None]
+        util = np.divide(need, sf, out=np.zeros(sf.shape), where=np.isfinite(sf)).max(axis=0)
         by_util = np.divide(required, util, out=np.full(util.shape, np.inf), where=util > 0)
         out.append(np.maximum(np.maximum(required, sf.min(axis=0)), by_util))
     return out

@@ -44,8 +44,7 @@ from stiff.checks.base import CheckRows, FloatArray, Text
 from stiff.checks.context import CheckContext, LoadSet, MemberForces, member_forces
 from stiff.checks.spans import End, EndKind, Span, node_xy, spans
 from stiff.fe import FrameModel, Solution, buckling_factors
-from stiff.fe.batch import pick
-from stiff.fe.buckling_bound import buckling_lower_bounds
+from stiff.fe.buckling_bound import screened_buckling_factors
 from stiff.materials import MetalMaterial, TubeMaterial
 from stiff.strength import ROOM_TEMPERATURE_C, Allowable, metal_strength
 
@@ -471,13 +470,7 @@ def frame_buckling_factors(loads: Sequence[LoadSet],
 
 def _screened(model: FrameModel, solution: Solution, cutoff: FloatArray) -> FloatArray:
     """(B, c) λ where its lower bound is below ``cutoff`` (B, c), the bound elsewhere."""
-    lam: FloatArray = buckling_lower_bounds(model, solution)
-    need = np.flatnonzero((lam < cutoff).any(axis=1))
-    if need.size:
-        part = Solution(**{name: getattr(solution, name)[need]
-                           for name in Solution.__dataclass_fields__})
-        lam[need] = buckling_factors(pick(model, need), part)
-    return lam
+    return screened_buckling_factors(model, solution, cutoff)
 
 
 def _frame_basis(lam: FloatArray, lowest: FloatArray) -> Text:

@@ -24,7 +24,7 @@ import numpy as np
 from stiff.fe import assemble, element
 from stiff.fe.model import FloatArray, FrameModel
 from stiff.fe.results import Solution
-from stiff.fe.solve import _reduced, _whitening
+from stiff.fe.solve import _free_geometric, _Reduced, _reduced, _whitening, top_factors
 
 
 def _unpack_blocks(blocks: FloatArray) -> FloatArray:
@@ -49,7 +49,31 @@ def buckling_lower_bounds(model: FrameModel, solution: Solution) -> FloatArray:
     """(..., c) a lower bound on each load case's buckling factor λ (``inf`` when nothing is
     in compression); see the module docstring. The model must hold (MechanismError)."""
     fac = _reduced(model)
-    W = _whitening(fac)  # (..., n_q, n_free)
+    return _bounds(model, fac, _whitening(fac), solution)
+
+
+def screened_buckling_factors(model: FrameModel, solution: Solution, cutoff: FloatArray
+                              ) -> FloatArray:
+    """(..., c) λ of every load case where its lower bound is below ``cutoff`` (..., c), and
+    the bound elsewhere (then at or below λ and at or above the cutoff).
+
+    The exact factors are those of ``stiff.fe.buckling_factors`` (the same whitening of the
+    same batch, the same eigenvalue problem), solved only for the load cases that need them.
+    """
+    fac = _reduced(model)
+    W = _whitening(fac)
+    out = _bounds(model, fac, W, solution)
+    need = out < cutoff
+    if need.any() and fac.Kr.shape[-1]:
+        Kg = _free_geometric(model, fac, solution)  # (..., c, n_free, n_free)
+        where = np.nonzero(need)
+        Wp = W[where[:-1]] if W.ndim > 2 else W
+        A = Wp @ -Kg[where] @ np.swapaxes(Wp, -1, -2)
+        out[where] = top_factors(np.asarray(np.linalg.eigvalsh(A), np.float64))
+    return out
+
+
+def _bounds(model: FrameModel, fac: _Reduced, W: FloatArray, solution: Solution) -> FloatArray:
     red = fac.red
     n_free = red.free.size
     axial = solution.beam_axial  # (..., c, n_beams)

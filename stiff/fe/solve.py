@@ -216,7 +216,13 @@ def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
         return np.full(Kg.shape[:-2], np.inf)
     W = _whitening(fac)[..., None, :, :]  # against the load-case axis
     # symmetric to round-off; eigvalsh reads its lower triangle only
-    mu = np.linalg.eigvalsh(W @ -Kg @ np.swapaxes(W, -1, -2))
+    return top_factors(np.asarray(np.linalg.eigvalsh(W @ -Kg @ np.swapaxes(W, -1, -2)),
+                                  np.float64))
+
+
+def top_factors(mu: FloatArray) -> FloatArray:
+    """(...) buckling factors 1/μ_max from the eigenvalues (..., n) of −K_G φ = μ K φ, in
+    ascending order; ``inf`` where no eigenvalue is clearly positive (nothing buckles)."""
     top, low = mu[..., -1], mu[..., 0]
     scale = np.maximum(np.maximum(np.abs(low), np.abs(top)), 1e-300)
     buckles = top > 1e-12 * scale
