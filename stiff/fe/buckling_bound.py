@@ -65,11 +65,13 @@ def screened_buckling_factors(model: FrameModel, solution: Solution, cutoff: Flo
     out = _bounds(model, fac, W, solution)
     need = out < cutoff
     if need.any() and fac.Kr.shape[-1]:
-        Kg = _free_geometric(model, fac, solution)  # (..., c, n_free, n_free)
-        where = np.nonzero(need)
+        cases = [int(j) for j in np.flatnonzero(need.reshape(-1, need.shape[-1]).any(axis=0))]
+        Kg = _free_geometric(model, fac, solution, cases)  # (..., c', n_free, n_free)
+        where = np.nonzero(need[..., cases])
         Wp = W[where[:-1]] if W.ndim > 2 else W
         A = Wp @ -Kg[where] @ np.swapaxes(Wp, -1, -2)
-        out[where] = top_factors(np.asarray(np.linalg.eigvalsh(A), np.float64))
+        at = (*where[:-1], np.asarray(cases)[where[-1]])
+        out[at] = top_factors(np.asarray(np.linalg.eigvalsh(A), np.float64))
     return out
 
 

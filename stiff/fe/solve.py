@@ -9,6 +9,8 @@ in chunks, so memory stays bounded however many poses or variants are solved.
 
 from __future__ import annotations
 
+from collections import OrderedDict
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 import numpy as np
@@ -85,7 +87,28 @@ class _Reduced:
         return checked_solve(self.model, self.red, self.Kr, Fr)
 
 
+#: The reductions of the last few models, by identity: sweeps and maps solve, take the
+#: compliance of and buckle the same batched model in turn. A model is frozen, so its
+#: reduction cannot go stale; each entry holds its model, so its id is not reused meanwhile.
+_RECENT: OrderedDict[int, _Reduced] = OrderedDict()
+RECENT_MODELS = 8
+
+
 def _reduced(model: FrameModel) -> _Reduced:
+    """:func:`_reduce_model`, kept for the last :data:`RECENT_MODELS` models."""
+    key = id(model)
+    hit = _RECENT.get(key)
+    if hit is not None and hit.model is model:
+        _RECENT.move_to_end(key)
+        return hit
+    fac = _reduce_model(model)
+    _RECENT[key] = fac
+    if len(_RECENT) > RECENT_MODELS:
+        _RECENT.popitem(last=False)
+    return fac
+
+
+def _reduce_model(model: FrameModel) -> _Reduced:
     """Only the columns of the free DOFs are assembled: the free-free block to solve with and
     the supports' rows for the reactions; the full matrix is never formed."""
     mats = assemble.beam_matrices(model) if model.beams.count else None
@@ -230,8 +253,10 @@ def top_factors(mu: FloatArray) -> FloatArray:
     return out
 
 
-def _free_geometric(model: FrameModel, fac: _Reduced, solution: Solution) -> FloatArray:
-    """(..., c, n_free, n_free) geometric stiffness at the free DOFs of every load case.
+def _free_geometric(model: FrameModel, fac: _Reduced, solution: Solution,
+                    cases: Sequence[int] | None = None) -> FloatArray:
+    """(..., c, n_free, n_free) geometric stiffness at the free DOFs of every load case (or of
+    the load cases ``cases``, in that order).
 
     One load case at a time: each case's forces then have the model's own batch shape, which
     the assembly broadcasts against (a batch of models with several cases would not).
@@ -239,10 +264,11 @@ def _free_geometric(model: FrameModel, fac: _Reduced, solution: Solution) -> Flo
     axial = solution.beam_axial  # (..., c, n_beams)
     change = solution.spring_forces - model.springs.tension[..., None, :]
     free = fac.red.free
+    chosen = range(axial.shape[-2]) if cases is None else cases
     return np.stack([
         geometric_stiffness(model, fac.mats, axial[..., j, :], change[..., j, :]).take(
             free, axis=-2).take(free, axis=-1)
-        for j in range(axial.shape[-2])], axis=-3)
+        for j in chosen], axis=-3)
 
 
 def _whitening(fac: _Reduced) -> FloatArray:
