@@ -11,6 +11,7 @@ capacity / demand; it is
 
 from __future__ import annotations
 
+import functools
 import math
 from collections.abc import Callable, Iterable
 from dataclasses import dataclass
@@ -126,14 +127,17 @@ class CheckRows:
             return np.ones(self.size, bool)
         return np.asarray(self.applies, bool)
 
-    @property
+    @functools.cached_property
     def safety_factors(self) -> FloatArray:
-        """(B,) capacity / demand, ∞ where there is no demand or the check does not apply."""
+        """(B,) capacity / demand, ∞ where there is no demand or the check does not apply
+        (computed once: the row is frozen)."""
         demand = np.asarray(self.demand, np.float64)
-        capacity = np.broadcast_to(np.asarray(self.capacity, np.float64), demand.shape)
-        live = (demand > 0.0) & self.mask
+        live = demand > 0.0
+        if self.applies is not None:
+            live &= np.asarray(self.applies, bool)
         out = np.full(demand.shape, np.inf)
-        np.divide(capacity, demand, out=out, where=live)
+        np.divide(self.capacity, demand, out=out, where=live)
+        out.flags.writeable = False
         return out
 
     @property
