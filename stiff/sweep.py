@@ -1,9 +1,12 @@
-"""Design sweeps: every combination of the swept settings through `stiff check`, then the trade
-between mass, print time, stiffness and strength, a recommendation and the sensitivities.
+"""Design sweeps: every combination of the swept settings, checked as `stiff check` does, then
+the trade between mass, print time, stiffness and strength, a recommendation and the
+sensitivities.
 
-Each variant is the case with the settings replaced (``stiff.sweep_spec.apply_values``) and is
-run through :func:`stiff.check.run_check` in full, so a variant's numbers are exactly what
-``stiff check`` gives for a case file with those settings. Per variant:
+Each variant is the case with the settings replaced (``stiff.sweep_spec.apply_values``),
+checked with every load case and check of `stiff check` through the batched path
+(``stiff.batched.check_variant``: its own pose, and the map's poses with ``poses``), so a
+variant's numbers are what ``stiff check`` gives for a case file with those settings (to
+round-off; tested). Per variant:
 
 * ``mass_g``: Σ mass per length x length over every member (tubes and printed segments) [g];
   joints' pins, lugs, hardware and actuators are not counted.
@@ -51,7 +54,6 @@ from stiff.batched import (
 )
 from stiff.build import Built
 from stiff.case_model import Case
-from stiff.check import CheckResult
 from stiff.errors import StiffError
 from stiff.pool import WORKERS, map_items
 from stiff.sweep_spec import Value, Variable, apply_values
@@ -108,36 +110,6 @@ def amounts(case: Case, built: Built) -> Amounts:
             rho = ps.material.density_t_mm3
             extruded += sum(r.area_mm2 * r.density_t_mm3 / rho for r in ps.regions) * length
     return Amounts(mass * G_PER_T, outline * CM3_PER_MM3, extruded * CM3_PER_MM3)
-
-
-def describe(record_item: str, mode: str, load_case: str) -> str:
-    """A check named as ``item: mode (load case)``."""
-    return f"{record_item}: {mode} ({load_case})"
-
-
-def row_from_result(index: int, values: tuple[Value, ...], result: CheckResult,
-                    rate_mm3_per_s: float) -> VariantRow:
-    """A variant's row from its `stiff check` result; ``rate_mm3_per_s`` [mm³/s]."""
-    amount = amounts(result.case, result.built)
-    checks = result.checks
-    lowest = min(checks, key=lambda r: r.safety_factor) if checks else None
-    not_met = [describe(r.item, r.mode, r.load_case) + f" factor {r.safety_factor:.3g} < "
-               f"{r.required_factor:g}" for r in result.governing if r.status != "met"]
-    if not result.dynamics.all_met:
-        not_met.append("a play target")
-    C = result.stiffness.compliance_mm_per_N
-    return VariantRow(
-        index=index, values=values, mass_g=amount.mass_g,
-        printed_volume_cm3=amount.printed_volume_cm3,
-        extruded_volume_cm3=amount.extruded_volume_cm3,
-        print_time_min=amount.extruded_volume_cm3 / CM3_PER_MM3 / rate_mm3_per_s / 60.0,
-        vertical_mm_per_N=float(C[1, 1]),
-        principal_mm_per_N=float(result.stiffness.principal_mm_per_N[0]),
-        lateral_mm_per_N=result.stiffness.lateral_mm_per_N,
-        min_factor=lowest.safety_factor if lowest else math.inf,
-        min_factor_check=describe(lowest.item, lowest.mode, lowest.load_case) if lowest else "",
-        worst_utilisation=max((r.utilisation for r in checks), default=0.0),
-        all_met=result.all_met, not_met=tuple(not_met))
 
 
 def _failed_row(index: int, values: tuple[Value, ...], why: str) -> VariantRow:

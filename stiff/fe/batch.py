@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import replace
 
 import numpy as np
@@ -88,6 +88,12 @@ def flat_slice(model: FrameModel, batch: tuple[int, ...], start: int, stop: int)
         full = np.broadcast_to(a, (*batch, *item))
         return full.reshape(batch_size(batch), *item)[start:stop]
 
+    return _rebuilt(model, cut)
+
+
+def _rebuilt(model: FrameModel, cut: Callable[[FloatArray, int], FloatArray]) -> FrameModel:
+    """The model with every batched array ``a`` (its last ``tail`` axes per item) replaced by
+    ``cut(a, tail)``."""
     b, c, s = model.beams, model.connectors, model.springs
     beams = Beams(nodes=b.nodes, E=cut(b.E, 1), G=cut(b.G, 1), A=cut(b.A, 1), Iy=cut(b.Iy, 1),
                   Iz=cut(b.Iz, 1), J=cut(b.J, 1), Asy=cut(b.Asy, 1), Asz=cut(b.Asz, 1),
@@ -108,11 +114,4 @@ def pick(model: FrameModel, index: npt.ArrayLike) -> FrameModel:
     def cut(a: FloatArray, tail: int) -> FloatArray:
         return np.broadcast_to(a, (*batch, *a.shape[a.ndim - tail:]))[at]
 
-    b, c, s = model.beams, model.connectors, model.springs
-    beams = Beams(nodes=b.nodes, E=cut(b.E, 1), G=cut(b.G, 1), A=cut(b.A, 1), Iy=cut(b.Iy, 1),
-                  Iz=cut(b.Iz, 1), J=cut(b.J, 1), Asy=cut(b.Asy, 1), Asz=cut(b.Asz, 1),
-                  ref=cut(b.ref, 2), releases=b.releases, names=b.names)
-    conns = replace(c, stiffness=cut(c.stiffness, 2), frame=cut(c.frame, 3))
-    springs = replace(s, rate=cut(s.rate, 1), tension=cut(s.tension, 1))
-    return replace(model, xyz=cut(model.xyz, 2), beams=beams, connectors=conns,
-                   springs=springs, ground=cut(model.ground, 2))
+    return _rebuilt(model, cut)

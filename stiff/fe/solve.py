@@ -121,8 +121,12 @@ def _reduce_model(model: FrameModel) -> _Reduced:
 
 def _static_chunk(model: FrameModel, F: FloatArray) -> Solution:
     fac = _reduced(model)
-    red = fac.red
-    q = fac.solve(red.project_rhs(np.swapaxes(F, -1, -2)))
+    return recovered(fac, F, fac.solve(fac.red.project_rhs(np.swapaxes(F, -1, -2))))
+
+
+def recovered(fac: _Reduced, F: FloatArray, q: FloatArray) -> Solution:
+    """The solution of loads F (..., c, n_dofs) from the reduced displacements q (..., n_q, c)."""
+    model, red = fac.model, fac.red
     u_free = q if red.T is None else red.T @ q  # (..., n_free, c)
     # displacements and K u with the free DOFs first, then in DOF order
     u_ordered = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))

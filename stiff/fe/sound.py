@@ -13,8 +13,8 @@ import numpy as np
 
 from stiff.fe.linalg import spd_solve
 from stiff.fe.model import BoolArray, FloatArray, FrameModel
-from stiff.fe.results import Solution, recover
-from stiff.fe.solve import _loads_matrix, _reduced
+from stiff.fe.results import Solution
+from stiff.fe.solve import _loads_matrix, _reduced, recovered
 
 
 def solve_static_sound(model: FrameModel, loads: FloatArray) -> tuple[Solution, BoolArray]:
@@ -25,14 +25,5 @@ def solve_static_sound(model: FrameModel, loads: FloatArray) -> tuple[Solution, 
     """
     F = _loads_matrix(model, loads)
     fac = _reduced(model)
-    red = fac.red
-    q, ok = spd_solve(fac.Kr, red.project_rhs(np.swapaxes(F, -1, -2)))
-    q = np.where(ok[..., None, None], q, np.nan)
-    u_free = q if red.T is None else red.T @ q
-    u_ordered = np.zeros((*u_free.shape[:-2], u_free.shape[-1], model.n_dofs))
-    u_ordered[..., : red.free.size] = np.swapaxes(u_free, -1, -2)
-    U = u_ordered.take(red.position, axis=-1)
-    KU = np.swapaxes(fac.K_cols @ u_free, -1, -2).take(red.position, axis=-1)
-    if F.shape != U.shape:
-        F, U = np.broadcast_arrays(F, U)
-    return recover(model, U, F, KU, fac.mats), ok
+    q, ok = spd_solve(fac.Kr, fac.red.project_rhs(np.swapaxes(F, -1, -2)))
+    return recovered(fac, F, np.where(ok[..., None, None], q, np.nan)), ok
