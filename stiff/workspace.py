@@ -10,13 +10,13 @@ pose angles (said in :attr:`WorkspaceMap.held`).
 Every grid pose is checked as :func:`stiff.check.run_check` checks the case with its pose
 replaced (``pose_angles_rad``; a foot target or a separate landing pose of the case is dropped,
 so the landing is taken in the mapped pose), through the batched path, 8 poses a batch
-(:func:`evaluate_poses`; :func:`evaluate_pose` is the one-pose reference). A pose the
-linkage cannot reach, or where it jams, is recorded with the reason (``reachable`` False),
-never raised. Per pose: foot position [mm], vertical (C_yy) and lateral (C_zz) compliance [mm/N], the minimum safety factor over the
-checks in the stance (or payload) and landing load cases, and the singularity measure
-(inverse condition of the scaled constraint Jacobian: 1 well conditioned, 0 singular). A pose
-whose measure is below :data:`NEAR_SINGULAR` is flagged: there the forces in the links grow as
-1/measure.
+(:func:`evaluate_poses`; :func:`evaluate_pose` is the one-pose reference). A pose the linkage
+cannot reach, or where it jams, is recorded with the reason (``reachable`` False), never raised.
+Per pose: foot position [mm], vertical (C_yy) and lateral (C_zz) compliance [mm/N], the minimum
+safety factor over the checks in the stance (or payload) and landing load cases, and the
+singularity measure (inverse condition of the scaled constraint Jacobian: 1 well conditioned, 0
+singular). A pose whose measure is below :data:`NEAR_SINGULAR` is flagged: there the forces in
+the links grow as 1/measure.
 
 The foot-target grid (:func:`grid_targets`, two actuators): ``steps`` x ``steps`` foot positions
 evenly over a box [mm], by default the box of the foot positions the angle grid reaches. Each
