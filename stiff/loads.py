@@ -31,10 +31,19 @@ import numpy as np
 from stiff.build import Built
 from stiff.case_model import Case
 from stiff.errors import MechanismError
-from stiff.fe import FrameModel, Solution, compliance, node_dofs, preload_loads, solve_static
+from stiff.fe import (
+    FrameModel,
+    Solution,
+    compliance,
+    node_dofs,
+    preload_loads,
+    solve_static,
+    stack,
+)
 from stiff.kinematics import Pose
 from stiff.landing import ForceCurve, LandingResult, Stage, simulate_landing
 from stiff.units import G_MM_PER_S2
+from stiff.yielding import Response, yield_responses
 
 F = TypeVar("F", float, np.ndarray)
 
@@ -152,11 +161,6 @@ def _torque_rates(model: FrameModel, built: Built, direction: float) -> dict[str
     return {a: float(sol.connector_forces[0, i, 5]) for i, a in _driven(built)}
 
 
-#: The leg's response with some actuators yielding: its vertical compliance [mm/N] and each
-#: actuator's torque per newton of foot force [N·mm/N]; None when it is then a mechanism.
-Response = tuple[float, dict[str, float]] | None
-
-
 def yielded_response(built: Built, direction: float, yielded: frozenset[str]) -> Response:
     """The model's response with the ``yielded`` actuators' holding stiffness taken out (with
     none yielded a mechanism raises: the leg cannot stand)."""
@@ -180,9 +184,13 @@ def landing_curve(case: Case, built: Built, pose: Pose, jacobian: np.ndarray,
     d(foot x, y)/d(actuator angles) [mm/rad] at the pose, used for how far a yielding joint
     turns per millimetre of stroke (to find where it reaches its limit).
     """
-    return curve_from_responses(
-        case, pose, jacobian, pad_N_per_mm, direction,
-        lambda yielded: yielded_response(built, direction, yielded))
+    update = yield_responses(built, stack([built.model]), direction)
+    if update is None:  # an actuator held rigidly: solve each yielded set anew
+        return curve_from_responses(
+            case, pose, jacobian, pad_N_per_mm, direction,
+            lambda yielded: yielded_response(built, direction, yielded))
+    return curve_from_responses(case, pose, jacobian, pad_N_per_mm, direction,
+                                lambda yielded: update.response(yielded)[0])
 
 
 def curve_from_responses(case: Case, pose: Pose, jacobian: np.ndarray,

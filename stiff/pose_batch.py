@@ -35,7 +35,6 @@ from stiff.landing import LandingResult, curve_arrays, simulate_landing, simulat
 from stiff.linkage import part_index
 from stiff.loads import (
     LoadCase,
-    Response,
     curve_from_responses,
     held_foot,
     impact_forces,
@@ -43,6 +42,7 @@ from stiff.loads import (
     landing_mass,
     load_cases,
 )
+from stiff.yielding import Response, yield_responses
 
 FloatArray = npt.NDArray[np.float64]
 IMPACT_PREFIXES = ("landing", "slip")
@@ -158,12 +158,14 @@ def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[
         return None
     mass, direction = drop
     cache: dict[frozenset[str], list[Response]] = {}
+    update = yield_responses(built, models.model, direction)
 
     def response_at(p: int) -> Callable[[frozenset[str]], Response]:
         def get(yielded: frozenset[str]) -> Response:
             if yielded not in cache:
-                cache[yielded] = _responses_of(built, freed(built, models.model, yielded),
-                                               direction)
+                cache[yielded] = (update.response(yielded) if update is not None else
+                                  _responses_of(built, freed(built, models.model, yielded),
+                                                direction))
             return cache[yielded][p]
         return get
 

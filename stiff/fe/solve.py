@@ -108,6 +108,11 @@ def _reduced(model: FrameModel) -> _Reduced:
     return fac
 
 
+def reduced_model(model: FrameModel) -> _Reduced:
+    """The model's reduced stiffness and what its solves need (kept for recent models)."""
+    return _reduced(model)
+
+
 def _reduce_model(model: FrameModel) -> _Reduced:
     """Only the columns of the free DOFs are assembled: the free-free block to solve with and
     the supports' rows for the reactions; the full matrix is never formed."""
