@@ -109,16 +109,18 @@ class Checked:
     play_met: bool
 
 
-def check_variant(case: Case, geometry: Geometry, screen: bool = True) -> Checked:
+def check_variant(case: Case, geometry: Geometry, screen: bool = True,
+                  only: Sequence[str] | None = None) -> Checked:
     """Build the case in its pose and check it in every pose of ``geometry``.
 
     ``screen``: the frame's buckling factor only where it can decide a pose's results (its
     rows elsewhere hold a lower bound; ``stiff.checks.check_rows``): the lowest factors, worst
-    utilisation and misses are those of the full solve.
+    utilisation and misses are those of the full solve. ``only``: the load cases to solve and
+    check (all by default).
     """
     built = build(case, geometry.poses[0])
     checks = check_poses(case, built, geometry.poses, geometry.jacobians, geometry.landing,
-                         screen=screen)
+                         screen=screen, only=only)
     t = case.targets
     play_met = True
     if t.max_play_mm is not None or t.max_lateral_play_mm is not None:

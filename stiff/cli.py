@@ -34,7 +34,7 @@ from stiff.report.sweep_plots import MAP_LABELS, angle_plot, map_plot, pareto_pl
 from stiff.report.sweep_text import SweepOutcome, map_lines, outcome_lines, sweep_outcome
 from stiff.report_text import material_detail, materials_list, section_comparison
 from stiff.sweep import DEFAULT_RATE_MM3_PER_S, Prefer, run_sweep, write_csv
-from stiff.sweep_spec import parse_specs, variant_count
+from stiff.sweep_spec import parse_load_cases, parse_specs, variant_count
 from stiff.workspace import grid_angles, target_map, workspace_map, write_map_csv
 
 
@@ -286,15 +286,19 @@ _RATE = click.option(
 
 
 def _sweep(case: Case, specs: tuple[str, ...], rate: float, prefer: str, out_dir: Path | None,
-           hidden: bool, map_steps: int | None = None) -> SweepOutcome:
+           hidden: bool, map_steps: int | None = None, load_cases: str | None = None
+           ) -> SweepOutcome:
     """The sweep of ``specs`` over ``case``, with sweep.csv and sweep.png in ``out_dir``;
-    with ``map_steps`` every variant is also checked over the map's grid of poses."""
+    with ``map_steps`` every variant is also checked over the map's grid of poses, with
+    ``load_cases`` (comma-separated names) only in those load cases."""
     chosen: Prefer = "time" if prefer == "time" else "mass"
     variables = parse_specs(case, specs)
+    only = parse_load_cases(case, load_cases) if load_cases is not None else None
     poses = grid_angles(case, map_steps)[2] if map_steps is not None else []
     with click.progressbar(length=variant_count(variables), label="variants",
                            file=sys.stderr, hidden=hidden or not sys.stderr.isatty()) as bar:
-        rows = run_sweep(case, variables, rate, progress=bar.update, poses=poses)
+        rows = run_sweep(case, variables, rate, progress=bar.update, poses=poses,
+                         load_cases=only)
     outcome = sweep_outcome(case, variables, rows, chosen)
     if out_dir is None:
         return outcome
@@ -390,9 +394,12 @@ def _save(ax: typing.Any, path: Path) -> Path:
 @click.option("--map-steps", "map_steps", type=click.IntRange(min=2, max=21), default=None,
               help="Also check every variant in the poses of `stiff map --steps N` (N x N for "
               "two actuators); its factors are then the lowest over its own pose and those.")
+@click.option("--load-cases", "load_cases", metavar="NAMES", default=None,
+              help="Check only these load cases, comma-separated (e.g. 'stance,landing,slip "
+              "fore,slip aft'); by default every load case of the case.")
 @click.pass_context
 def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: Path,
-          prefer: str, rate: float, map_steps: int | None) -> None:
+          prefer: str, rate: float, map_steps: int | None, load_cases: str | None) -> None:
     """Check every combination of print settings, tube sizes and case values of CASE_FILE.
 
     Writes sweep.csv (one line per variant) and sweep.png (mass against compliance, Pareto
@@ -402,12 +409,15 @@ def sweep(ctx: click.Context, case_file: Path, specs: tuple[str, ...], out_dir: 
     """
     try:
         _check_case_path(case_file)
-        outcome = _sweep(load_case(case_file), specs, rate, prefer, out_dir, False, map_steps)
+        outcome = _sweep(load_case(case_file), specs, rate, prefer, out_dir, False, map_steps,
+                         load_cases)
     except StiffError as err:
         raise _command_error(err) from err
     except OSError as err:
         raise _InputError(StiffError(f"cannot write into {out_dir}: {err.strerror}")) from None
     click.echo("\n".join(outcome_lines(outcome)))
+    if load_cases is not None:
+        click.echo(f"load cases checked: {load_cases} (only these)")
     click.echo(f"variants: {outcome.csv_path}")
     click.echo(f"plot: {outcome.png_path}")
     ctx.exit(EXIT_OK if outcome.meets else EXIT_CHECK_FAILED)

@@ -286,6 +286,21 @@ def landing(case: Case, built: Built, pose: Pose, jacobian: np.ndarray) -> Landi
     return simulate_landing(mass, case.loads.drop_height_mm, curve, landing_damping(case))
 
 
+def load_case_names(case: Case) -> tuple[str, ...]:
+    """The names of the case's load cases, in the order :func:`load_cases` makes them."""
+    loads = case.loads
+    out = ["payload" if loads.payload_t is not None else "stance"]
+    if landing_mass(case) is not None:
+        out.append("landing")
+        if loads.payload_t is None:
+            out += ["slip fore", "slip aft"]
+    out.append("lateral push")
+    for a in case.actuators:
+        out += [f"stall {a.name} +", f"stall {a.name} −"]
+    out += [s.name for s in loads.static]
+    return tuple(out)
+
+
 def impact_forces(case: Case, N: F) -> dict[str, tuple[F, F, F]]:
     """Foot force (x, y, z) [N] of the landing and slip cases for a landing peak N [N] (a float
     or an array of peaks, one per pose): the landing straight along the weight's line, the

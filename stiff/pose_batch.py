@@ -40,6 +40,7 @@ from stiff.loads import (
     impact_forces,
     landing_damping,
     landing_mass,
+    load_case_names,
     load_cases,
 )
 from stiff.yielding import Response, yield_responses
@@ -303,7 +304,7 @@ class PoseChecks:
 def check_poses(case: Case, built: Built, poses: Sequence[Pose],
                 jacobians: Sequence[FloatArray],
                 landing_at: tuple[Sequence[Pose], Sequence[FloatArray]] | None = None,
-                screen: bool = False) -> PoseChecks:
+                screen: bool = False, only: Sequence[str] | None = None) -> PoseChecks:
     """Check the case built as ``built`` in every one of ``poses`` at once.
 
     Parameters
@@ -314,12 +315,17 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
         (a case with a landing pose of its own); by default each pose itself
     screen : solve the frame's buckling factor only where it can decide a pose's results
         (``stiff.checks.check_rows``); its rows elsewhere hold a lower bound
+    only : the names of the load cases to solve and check (all by default; unknown names are
+        ignored here, see :func:`stiff.loads.load_case_names`)
     """
     models = pose_models(case, built, poses)
     land_poses, land_jac = landing_at if landing_at is not None else (poses, jacobians)
     land_models = models if landing_at is None else pose_models(case, built, land_poses)
-    landings = pose_landings(case, built, land_models, land_poses, land_jac)
-    template = load_cases(case, built, landings.first if landings else None)
+    lands = only is None or any(n.startswith(IMPACT_PREFIXES) for n in only)
+    landings = (pose_landings(case, built, land_models, land_poses, land_jac) if lands
+                else None)
+    every = load_cases(case, built, landings.first if landings else None)
+    template = every if only is None else tuple(lc for lc in every if lc.name in only)
     P = len(poses)
     peaks = landings.peak_N if landings else np.zeros(P)
     impact = {k: np.stack(v, axis=-1) for k, v in impact_forces(case, peaks).items()}
@@ -333,7 +339,8 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     sets = solve_sets(case, built, models, rest)
     sets.update(solve_sets(case, built, land_models, hits))
     ordered = tuple(sets[lc.name] for lc in template)
-    rows = check_rows(CheckContext(case, built, ordered), screen=screen)
+    names = None if only is None else load_case_names(case)
+    rows = check_rows(CheckContext(case, built, ordered, names), screen=screen)
     C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
     C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,

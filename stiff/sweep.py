@@ -141,7 +141,8 @@ def row_from_checked(index: int, values: tuple[Value, ...], checked: Checked,
 
 
 def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tuple[Value, ...],
-             rate_mm3_per_s: float, geometry: Geometry | None = None) -> VariantRow:
+             rate_mm3_per_s: float, geometry: Geometry | None = None,
+             only: Sequence[str] | None = None) -> VariantRow:
     """One variant checked through the batched path (``stiff.batched``), in the poses of
     ``geometry`` when its linkage is the base case's (else in its own pose); a StiffError
     becomes a row with its ``error``."""
@@ -149,7 +150,7 @@ def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tu
         variant = apply_values(case, variables, values)
         same = geometry is not None and geometry_key(variant) == geometry_key(case)
         geo = geometry if same and geometry is not None else case_geometry(variant)
-        checked = check_variant(variant, geo)
+        checked = check_variant(variant, geo, only=only)
     except StiffError as err:
         return _failed_row(index, values, str(err).replace("\n", " "))
     return row_from_checked(index, values, checked, rate_mm3_per_s)
@@ -164,7 +165,8 @@ def run_sweep(case: Case, variables: tuple[Variable, ...],
               rate_mm3_per_s: float = DEFAULT_RATE_MM3_PER_S,
               progress: Callable[[int], None] | None = None,
               workers: int = WORKERS,
-              poses: Sequence[Sequence[float]] = ()) -> tuple[VariantRow, ...]:
+              poses: Sequence[Sequence[float]] = (),
+              load_cases: Sequence[str] | None = None) -> tuple[VariantRow, ...]:
     """Every variant of the full factorial, in order.
 
     Parameters
@@ -176,20 +178,22 @@ def run_sweep(case: Case, variables: tuple[Variable, ...],
     workers : processes when there are more than :data:`stiff.pool.POOL_ABOVE` variants
     poses : more poses (actuator angles [rad], in the case's actuator order) every variant is
         checked in besides its own; its factors are then the lowest over all of them
+    load_cases : the names of the load cases to check (all of the case's by default; from
+        :func:`stiff.sweep_spec.parse_load_cases`)
     """
     combos = list(enumerate(variant_values(variables)))
     try:
         geometry: Geometry | None = case_geometry(case, poses)
     except StiffError:
         geometry = None  # each variant then says why in its row
-    job = partial(_evaluate_item, case, variables, rate_mm3_per_s, geometry)
+    job = partial(_evaluate_item, case, variables, rate_mm3_per_s, geometry, load_cases)
     return tuple(map_items(job, combos, workers, progress))
 
 
 def _evaluate_item(case: Case, variables: tuple[Variable, ...], rate_mm3_per_s: float,
-                   geometry: Geometry | None, item: tuple[int, tuple[Value, ...]]
-                   ) -> VariantRow:
-    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s, geometry)
+                   geometry: Geometry | None, only: Sequence[str] | None,
+                   item: tuple[int, tuple[Value, ...]]) -> VariantRow:
+    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s, geometry, only)
 
 
 def pareto_front(rows: Sequence[VariantRow]) -> tuple[int, ...]:

@@ -47,6 +47,7 @@ from stiff.case import TOP, read_case
 from stiff.case_model import Case, Part
 from stiff.case_reader import Reader
 from stiff.errors import StiffError
+from stiff.loads import load_case_names
 from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS
 
 Setting = Literal["walls", "infill", "pattern", "build", "width_mm", "depth_mm", "size"]
@@ -369,3 +370,20 @@ def case_value(case: Case, spec: str, head: str, text: str) -> Variable:
         except StiffError as err:
             raise SweepSpecError(spec, str(err)) from None
     return var
+
+
+def parse_load_cases(case: Case, text: str) -> tuple[str, ...]:
+    """The load cases a sweep checks, from a comma-separated list of the case's load-case
+    names (``stiff.loads.load_case_names``); an unknown or repeated name is refused."""
+    known = load_case_names(case)
+    names = tuple(w.strip() for w in text.split(","))
+    spec = f"--load-cases {text}"
+    if not text.strip() or any(not n for n in names):
+        raise SweepSpecError(spec, "give the load cases as a comma-separated list of names")
+    for n in names:
+        if n not in known:
+            raise SweepSpecError(spec, f"no load case {n!r}; the case's load cases: "
+                                 f"{', '.join(known)}")
+    if len(set(names)) != len(names):
+        raise SweepSpecError(spec, "a load case is named twice")
+    return names

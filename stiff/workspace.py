@@ -177,7 +177,7 @@ def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]]
             checked = None
         else:
             at = pose_case(case, grid[geometry.reached[0]])
-            checked = check_variant(at, geometry)
+            checked = check_variant(at, geometry, only=MAP_LOAD_CASES)
     except StiffError:
         return [evaluate_pose(case, k, angles) for k, angles in items]
     nan = math.nan

@@ -27,6 +27,7 @@ from stiff.case import load_case
 from stiff.check import CheckResult, run_check
 from stiff.checks.base import CheckRecord, CheckRows, expand
 from stiff.cli import cli
+from stiff.loads import load_case_names
 from stiff.sweep import run_sweep
 from stiff.sweep_spec import parse_specs
 from stiff.workspace import evaluate_pose, evaluate_poses, grid_angles, pose_case
@@ -158,3 +159,44 @@ def test_screening_the_frame_buckling_keeps_every_result(path: Path) -> None:
 
 def _key_rows(r: CheckRows) -> tuple[str, str, str]:
     return (r.item, r.mode, r.load_case)
+
+
+@pytest.mark.parametrize("path", DEMOS, ids=lambda p: p.stem)
+def test_load_case_names_are_those_of_the_load_cases(path: Path) -> None:
+    """load_case_names (used to check names without solving) lists `stiff check`'s load
+    cases in order."""
+    full = run_check(load_case(path))
+    assert load_case_names(full.case) == tuple(r.name for r in full.load_cases)
+
+
+def test_checking_some_load_cases_gives_their_rows_of_the_full_check() -> None:
+    """Only the chosen load cases: the same rows and factors as those load cases of the full
+    check, and their lowest factor."""
+    case = load_case(CASES_DIR / "five_bar_leg.toml")
+    _, _, grid = grid_angles(case, 3)
+    geometry = case_geometry(case, grid)
+    chosen = ("stance", "landing", "slip fore", "slip aft")
+    full = check_variant(case, geometry).checks
+    some = check_variant(case, geometry, only=chosen).checks
+    assert some.load_case_names == chosen
+    mine = [r for r in full.rows if r.load_case in chosen]
+    assert [_key_rows(r) for r in some.rows] == [_key_rows(r) for r in mine]
+    low_full, _ = full.lowest(chosen)
+    low_some, _ = some.lowest()
+    assert np.allclose(low_some, low_full, rtol=REL, atol=0.0)
+
+
+def test_sweep_over_some_load_cases_and_a_bad_name(tmp_path: Path) -> None:
+    """`stiff sweep --load-cases` runs and says so; an unknown name is exit 2 in one line."""
+    arm = str(CASES_DIR / "camera_arm.toml")
+    good = CliRunner().invoke(cli, ["sweep", arm, "--vary", "lower_arm.walls=2,3",
+                                    "--load-cases", "payload,landing", "--out",
+                                    str(tmp_path / "a")])
+    assert good.exit_code in (0, 1), good.output
+    assert "load cases checked: payload,landing" in good.output
+    bad = CliRunner().invoke(cli, ["sweep", arm, "--vary", "lower_arm.walls=2,3",
+                                   "--load-cases", "payload,jump", "--out", str(tmp_path / "b")])
+    assert bad.exit_code == 2
+    assert "no load case 'jump'" in bad.output
+    assert len(bad.output.strip().splitlines()) == 1
+    assert "Traceback" not in bad.output

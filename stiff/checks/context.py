@@ -136,6 +136,9 @@ class CheckContext:
     case: Case
     built: Built
     results: Sequence[LoadCaseResult | LoadSet]
+    #: every load case of the case, when only some are solved (sweeps over chosen load cases):
+    #: names the case refers to (deflection targets) are checked against these
+    load_case_names: tuple[str, ...] | None = None
     loads: tuple[LoadSet, ...] = field(init=False)
 
     def __post_init__(self) -> None:

@@ -60,7 +60,7 @@ def _known_cases(ctx: CheckContext) -> tuple[str, ...]:
     """The case's deflection-target load cases (the static ones by default); an unknown name
     is a :class:`CaseError`."""
     t = ctx.case.targets
-    known = [s.name for s in ctx.loads]
+    known = list(ctx.load_case_names or (s.name for s in ctx.loads))
     for n in t.deflection_cases or ():
         if n not in known:
             raise CaseError(ctx.case.file, "targets.deflection_cases",
