@@ -29,6 +29,7 @@ from stiff.checks import check_rows
 from stiff.checks.base import CheckRows
 from stiff.checks.context import CheckContext, LoadSet
 from stiff.fe import FrameModel, compliance, node_dofs, preload_loads, solve_static
+from stiff.fe.solve import Reductions
 from stiff.fe.sound import solve_static_sound
 from stiff.kinematics import Pose
 from stiff.landing import LandingResult, curve_arrays, simulate_landing, simulate_landings
@@ -127,10 +128,11 @@ def _unit_up(model: FrameModel, foot: int, direction: float) -> FloatArray:
     return loads
 
 
-def _responses_of(built: Built, model: FrameModel, direction: float) -> list[Response]:
+def _responses_of(built: Built, model: FrameModel, direction: float,
+                  memo: Reductions | None = None) -> list[Response]:
     """Each pose's :data:`stiff.loads.Response` of a batched model (None where a mechanism:
     with its actuators yielded the leg holds nothing more)."""
-    sol, sound = solve_static_sound(model, _unit_up(model, built.foot, direction))
+    sol, sound = solve_static_sound(model, _unit_up(model, built.foot, direction), memo)
     uy = sol.displacements[:, 0, built.foot, 1] * direction  # compliance: u_y per newton up
     torques = sol.connector_forces[:, 0, :, 5]
     driven = _driven(built)
@@ -148,7 +150,8 @@ class PoseLandings:
 
 
 def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[Pose],
-                  jacobians: Sequence[FloatArray]) -> PoseLandings | None:
+                  jacobians: Sequence[FloatArray], memo: Reductions | None = None
+                  ) -> PoseLandings | None:
     """The landing in each pose (as :func:`stiff.loads.landing` there), or None without a
     drop. The leg's response with each set of actuators yielded is solved for all poses at
     once, only for the sets some pose's curve reaches; the drops are simulated together
@@ -159,14 +162,14 @@ def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[
         return None
     mass, direction = drop
     cache: dict[frozenset[str], list[Response]] = {}
-    update = yield_responses(built, models.model, direction)
+    update = yield_responses(built, models.model, direction, memo)
 
     def response_at(p: int) -> Callable[[frozenset[str]], Response]:
         def get(yielded: frozenset[str]) -> Response:
             if yielded not in cache:
                 cache[yielded] = (update.response(yielded) if update is not None else
                                   _responses_of(built, freed(built, models.model, yielded),
-                                                direction))
+                                                direction, memo))
             return cache[yielded][p]
         return get
 
@@ -212,7 +215,8 @@ def _group_loads(model: FrameModel, built: Built, group: _Group) -> FloatArray:
 
 
 def solve_sets(case: Case, built: Built, models: PoseModels,
-               cases: Sequence[tuple[LoadCase, FloatArray]]) -> dict[str, LoadSet]:
+               cases: Sequence[tuple[LoadCase, FloatArray]], memo: Reductions | None = None
+               ) -> dict[str, LoadSet]:
     """Every load case solved in every pose, as load sets (by name)."""
     out: dict[str, LoadSet] = {}
     driven = _driven(built)
@@ -220,7 +224,7 @@ def solve_sets(case: Case, built: Built, models: PoseModels,
     for g in _groups(cases):
         model = freed(built, base, frozenset({g.stalled})) if g.stalled else base
         model = held_foot(model, built.foot) if g.held else model
-        sol = solve_static(model, _group_loads(model, built, g))
+        sol = solve_static(model, _group_loads(model, built, g), memo)
         for j, (lc, _) in enumerate(g.cases):
             torque = sol.connector_forces[:, j, [i for i, _ in driven], 5].copy()
             for col, (_, a) in enumerate(driven):
@@ -322,7 +326,8 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     land_poses, land_jac = landing_at if landing_at is not None else (poses, jacobians)
     land_models = models if landing_at is None else pose_models(case, built, land_poses)
     lands = only is None or any(n.startswith(IMPACT_PREFIXES) for n in only)
-    landings = (pose_landings(case, built, land_models, land_poses, land_jac) if lands
+    memo = Reductions()
+    landings = (pose_landings(case, built, land_models, land_poses, land_jac, memo) if lands
                 else None)
     every = load_cases(case, built, landings.first if landings else None)
     template = every if only is None else tuple(lc for lc in every if lc.name in only)
@@ -336,12 +341,12 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
             hits.append((lc, force))
         else:
             rest.append((lc, np.broadcast_to(np.asarray(lc.foot_force_N, float), (P, 3))))
-    sets = solve_sets(case, built, models, rest)
-    sets.update(solve_sets(case, built, land_models, hits))
+    sets = solve_sets(case, built, models, rest, memo)
+    sets.update(solve_sets(case, built, land_models, hits, memo))
     ordered = tuple(sets[lc.name] for lc in template)
     names = None if only is None else load_case_names(case)
-    rows = check_rows(CheckContext(case, built, ordered, names), screen=screen)
-    C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"))
+    rows = check_rows(CheckContext(case, built, ordered, names, memo), screen=screen)
+    C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"), memo)
     C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,
                       landings=landings,

@@ -22,7 +22,7 @@ from stiff.fe import FrameModel
 from stiff.fe.assemble import connector_kinematics
 from stiff.fe.linalg import spd_solve
 from stiff.fe.model import FloatArray
-from stiff.fe.solve import reduced_model
+from stiff.fe.solve import Reductions, reduced_model
 
 #: The leg's response with some actuators yielding: its vertical compliance [mm/N] and each
 #: actuator's torque per newton of foot force [N·mm/N]; None when it is then a mechanism.
@@ -78,7 +78,8 @@ class YieldResponses:
                 if sound[p] else None for p in range(u.shape[0])]
 
 
-def yield_responses(built: Built, model: FrameModel, direction: float) -> YieldResponses | None:
+def yield_responses(built: Built, model: FrameModel, direction: float,
+                    memo: Reductions | None = None) -> YieldResponses | None:
     """:class:`YieldResponses` of a batched model, or None when an actuator's twist is rigid (a
     measured infinite stiffness: taking it out changes the constraints, not a rank)."""
     driven = _driven(built)
@@ -87,7 +88,7 @@ def yield_responses(built: Built, model: FrameModel, direction: float) -> YieldR
     twist = k[..., [i for i, _ in driven], 5]  # (P, m)
     if not driven or not np.all(np.isfinite(twist)) or np.any(twist != twist[:1]):
         return None
-    fac = reduced_model(model)
+    fac = reduced_model(model, memo)
     red = fac.red
     G_full = np.zeros((*model.batch_shape, model.n_dofs, len(driven)))
     rows = connector_kinematics(model)[..., [i for i, _ in driven], 5, :]  # (P, m, 12)

@@ -23,6 +23,7 @@ from stiff.build import Built
 from stiff.case_model import BODY, Case, Joint, Part
 from stiff.checks.allowables import Duty, FailureKind, duty
 from stiff.fe import FrameModel, Solution, stack
+from stiff.fe.solve import Reductions
 from stiff.loads import LoadCaseResult
 
 FloatArray = npt.NDArray[np.float64]
@@ -139,6 +140,8 @@ class CheckContext:
     #: every load case of the case, when only some are solved (sweeps over chosen load cases):
     #: names the case refers to (deflection targets) are checked against these
     load_case_names: tuple[str, ...] | None = None
+    #: the engine's reductions kept for this check (``stiff.fe.solve.Reductions``), if any
+    memo: Reductions | None = None
     loads: tuple[LoadSet, ...] = field(init=False)
 
     def __post_init__(self) -> None:

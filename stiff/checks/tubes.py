@@ -43,8 +43,9 @@ from stiff.case_model import Case, Part
 from stiff.checks.base import CheckRows, FloatArray, Text
 from stiff.checks.context import CheckContext, LoadSet, MemberForces, member_forces
 from stiff.checks.spans import End, EndKind, Span, node_xy, spans
-from stiff.fe import FrameModel, Solution, buckling_factors
+from stiff.fe import Solution, buckling_factors
 from stiff.fe.buckling_bound import screened_buckling_factors
+from stiff.fe.solve import Reductions
 from stiff.materials import MetalMaterial, TubeMaterial
 from stiff.strength import ROOM_TEMPERATURE_C, Allowable, metal_strength
 
@@ -434,7 +435,8 @@ def _same(a: object, b: object) -> bool:
 
 
 def frame_buckling_factors(loads: Sequence[LoadSet],
-                           cutoffs: Sequence[FloatArray] | None = None) -> list[FloatArray]:
+                           cutoffs: Sequence[FloatArray] | None = None,
+                           memo: Reductions | None = None) -> list[FloatArray]:
     """(B,) load factor λ at which each load set buckles the frame (``inf``: never), per set.
 
     Load sets solved on the same model (the load cases `stiff check` solves together, or
@@ -460,17 +462,13 @@ def frame_buckling_factors(loads: Sequence[LoadSet],
             name: np.concatenate([getattr(loads[k].solution, name) for k in members], axis=axis)
             for name in Solution.__dataclass_fields__})
         if cutoffs is None or axis != 1:
-            lam = buckling_factors(model, solution).reshape(-1, len(members))
+            lam = buckling_factors(model, solution, memo).reshape(-1, len(members))
         else:
-            lam = _screened(model, solution, np.stack([cutoffs[k] for k in members], axis=-1))
+            lam = screened_buckling_factors(
+                model, solution, np.stack([cutoffs[k] for k in members], axis=-1), memo)
         for j, k in enumerate(members):
             out[k] = lam[:, j]
     return [out[k] for k in range(len(loads))]
-
-
-def _screened(model: FrameModel, solution: Solution, cutoff: FloatArray) -> FloatArray:
-    """(B, c) λ where its lower bound is below ``cutoff`` (B, c), the bound elsewhere."""
-    return screened_buckling_factors(model, solution, cutoff)
 
 
 def _frame_basis(lam: FloatArray, lowest: FloatArray) -> Text:
@@ -547,7 +545,7 @@ def checks(ctx: CheckContext, cutoffs: Sequence[FloatArray] | None = None) -> li
     tubes = _tubes(ctx)
     if not tubes:
         return []
-    lams = frame_buckling_factors(ctx.loads, cutoffs)
+    lams = frame_buckling_factors(ctx.loads, cutoffs, ctx.memo)
     return [row for loads, lam in zip(ctx.loads, lams, strict=True)
             for row in _load_set_rows(ctx, loads, lam, tubes)]
 

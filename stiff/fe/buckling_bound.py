@@ -24,7 +24,14 @@ import numpy as np
 from stiff.fe import assemble, element
 from stiff.fe.model import FloatArray, FrameModel
 from stiff.fe.results import Solution
-from stiff.fe.solve import _free_geometric, _Reduced, _reduced, _whitening, top_factors
+from stiff.fe.solve import (
+    Reductions,
+    _free_geometric,
+    _Reduced,
+    _reduced,
+    _whitening,
+    top_factors,
+)
 
 
 def _unpack_blocks(blocks: FloatArray) -> FloatArray:
@@ -52,15 +59,15 @@ def buckling_lower_bounds(model: FrameModel, solution: Solution) -> FloatArray:
     return _bounds(model, fac, _whitening(fac), solution)
 
 
-def screened_buckling_factors(model: FrameModel, solution: Solution, cutoff: FloatArray
-                              ) -> FloatArray:
+def screened_buckling_factors(model: FrameModel, solution: Solution, cutoff: FloatArray,
+                              memo: Reductions | None = None) -> FloatArray:
     """(..., c) λ of every load case where its lower bound is below ``cutoff`` (..., c), and
     the bound elsewhere (then at or below λ and at or above the cutoff).
 
     The exact factors are those of ``stiff.fe.buckling_factors`` (the same whitening of the
     same batch, the same eigenvalue problem), solved only for the load cases that need them.
     """
-    fac = _reduced(model)
+    fac = _reduced(model, memo)  # memo: see stiff.fe.solve.Reductions
     W = _whitening(fac)
     out = _bounds(model, fac, W, solution)
     need = out < cutoff

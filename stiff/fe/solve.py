@@ -9,7 +9,6 @@ in chunks, so memory stays bounded however many poses or variants are solved.
 
 from __future__ import annotations
 
-from collections import OrderedDict
 from collections.abc import Sequence
 from dataclasses import dataclass
 
@@ -87,30 +86,35 @@ class _Reduced:
         return checked_solve(self.model, self.red, self.Kr, Fr)
 
 
-#: The reductions of the last few models, by identity: sweeps and maps solve, take the
-#: compliance of and buckle the same batched model in turn. A model is frozen, so its
-#: reduction cannot go stale; each entry holds its model, so its id is not reused meanwhile.
-_RECENT: OrderedDict[int, _Reduced] = OrderedDict()
-RECENT_MODELS = 8
+class Reductions:
+    """The reductions of the models one piece of work solves several times, by identity.
 
+    A batched map or sweep variant is solved, its compliance taken, its landing responses and
+    buckling factors found on the same model in turn; the caller makes one of these for that
+    work and passes it to each analysis (``memo=``), which then assembles and reduces each
+    model once. Models are frozen, so a kept reduction cannot go stale, and each entry holds
+    its model, so an id is not reused while it is kept. Let it go with the work.
+    """
 
-def _reduced(model: FrameModel) -> _Reduced:
-    """:func:`_reduce_model`, kept for the last :data:`RECENT_MODELS` models."""
-    key = id(model)
-    hit = _RECENT.get(key)
-    if hit is not None and hit.model is model:
-        _RECENT.move_to_end(key)
+    def __init__(self) -> None:
+        self._kept: dict[int, _Reduced] = {}
+
+    def of(self, model: FrameModel) -> _Reduced:
+        """The model's reduction, made the first time it is asked for."""
+        hit = self._kept.get(id(model))
+        if hit is None or hit.model is not model:
+            hit = self._kept[id(model)] = _reduce_model(model)
         return hit
-    fac = _reduce_model(model)
-    _RECENT[key] = fac
-    if len(_RECENT) > RECENT_MODELS:
-        _RECENT.popitem(last=False)
-    return fac
 
 
-def reduced_model(model: FrameModel) -> _Reduced:
-    """The model's reduced stiffness and what its solves need (kept for recent models)."""
-    return _reduced(model)
+def _reduced(model: FrameModel, memo: Reductions | None = None) -> _Reduced:
+    """The model's reduction, from ``memo`` when one is given."""
+    return _reduce_model(model) if memo is None else memo.of(model)
+
+
+def reduced_model(model: FrameModel, memo: Reductions | None = None) -> _Reduced:
+    """The model's reduced stiffness and what its solves need."""
+    return _reduced(model, memo)
 
 
 def _reduce_model(model: FrameModel) -> _Reduced:
@@ -124,8 +128,9 @@ def _reduce_model(model: FrameModel) -> _Reduced:
                     Kr=red.project_free(K_cols[..., :n_free, :]))
 
 
-def _static_chunk(model: FrameModel, F: FloatArray) -> Solution:
-    fac = _reduced(model)
+def _static_chunk(model: FrameModel, F: FloatArray, memo: Reductions | None = None
+                  ) -> Solution:
+    fac = _reduced(model, memo)
     return recovered(fac, F, fac.solve(fac.red.project_rhs(np.swapaxes(F, -1, -2))))
 
 
@@ -143,7 +148,8 @@ def recovered(fac: _Reduced, F: FloatArray, q: FloatArray) -> Solution:
     return recover(model, U, F, KU, fac.mats)
 
 
-def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
+def solve_static(model: FrameModel, loads: FloatArray, memo: Reductions | None = None
+                 ) -> Solution:
     """Linear static solution of every load case.
 
     Parameters
@@ -151,16 +157,17 @@ def solve_static(model: FrameModel, loads: FloatArray) -> Solution:
     model : the frame (optionally batched)
     loads : (..., c, n_nodes, 6) nodal forces [N] and moments [N·mm] in global axes; the
         batch axes broadcast against the model's
+    memo : reductions kept for this piece of work (:class:`Reductions`), if any
     """
     F = _loads_matrix(model, loads)
     model_batch = model.batch_shape
     batch = model_batch if model_batch == F.shape[:-2] or F.ndim == 2 else np.broadcast_shapes(
         model_batch, F.shape[:-2])
     if not batch:
-        return _static_chunk(model, F)
+        return _static_chunk(model, F, memo)
     chunk = _chunk(model)
     if batch_size(batch) <= chunk:
-        return _static_chunk(model, F)
+        return _static_chunk(model, F, memo)
     F = np.broadcast_to(F, (*batch, *F.shape[-2:])).reshape(-1, *F.shape[-2:])
     n = F.shape[0]
     # The chunks' results are joined at the end, not copied out one by one: kept alive, they
@@ -184,14 +191,16 @@ def _displace(fac: Assembled, F: FloatArray) -> tuple[FloatArray, FloatArray, Fl
     return U, F, KU
 
 
-def compliance(model: FrameModel, dofs: IntArray) -> FloatArray:
+def compliance(model: FrameModel, dofs: IntArray, memo: Reductions | None = None
+               ) -> FloatArray:
     """Compliance matrix (..., m, m) at global DOF indices ``dofs`` (see ``node_dofs``).
 
     Units follow the DOFs: mm/N between translations, rad/(N·mm) between rotations, and
     rad/N = mm/(N·mm) across. A supported DOF has zero compliance. All m unit loads are solved
-    as one multi-right-hand-side solve on one factorisation.
+    as one multi-right-hand-side solve on one factorisation. ``memo``: see
+    :class:`Reductions`.
     """
-    fac = _reduced(model)
+    fac = _reduced(model, memo)
     dofs = np.asarray(dofs, dtype=np.intp).reshape(-1)
     E = np.zeros((model.n_dofs, dofs.size))
     E[dofs, np.arange(dofs.size)] = 1.0
@@ -230,7 +239,8 @@ def geometric_stiffness(
     return assemble.assemble_matrix(every, every, shape, parts)
 
 
-def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
+def buckling_factors(model: FrameModel, solution: Solution, memo: Reductions | None = None
+                     ) -> FloatArray:
     """(..., c) load factor λ at which each load case buckles the model (linear buckling).
 
     Solves (K + λ K_G) φ = 0 with K_G from the members' axial forces and the springs' tension
@@ -242,7 +252,7 @@ def buckling_factors(model: FrameModel, solution: Solution) -> FloatArray:
     (Golub & Van Loan, *Matrix Computations*, 4th ed., §8.7.2, from memory); here numpy's
     stacked Cholesky, inverse and ``eigvalsh`` do it for every model and load case at once.
     """
-    fac = _reduced(model)
+    fac = _reduced(model, memo)
     Kg = _free_geometric(model, fac, solution)  # (..., c, n_free, n_free)
     if fac.Kr.shape[-1] == 0:
         return np.full(Kg.shape[:-2], np.inf)
