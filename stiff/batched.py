@@ -19,7 +19,7 @@ from dataclasses import dataclass
 import numpy as np
 import numpy.typing as npt
 
-from stiff.build import Built, build
+from stiff.build import Built, Sections, build
 from stiff.case_model import Case
 from stiff.check import landing_pose
 from stiff.checks.base import CheckRows
@@ -110,15 +110,17 @@ class Checked:
 
 
 def check_variant(case: Case, geometry: Geometry, screen: bool = True,
-                  only: Sequence[str] | None = None) -> Checked:
+                  only: Sequence[str] | None = None, sections: Sections | None = None
+                  ) -> Checked:
     """Build the case in its pose and check it in every pose of ``geometry``.
 
     ``screen``: the frame's buckling factor only where it can decide a pose's results (its
     rows elsewhere hold a lower bound; ``stiff.checks.check_rows``): the lowest factors, worst
     utilisation and misses are those of the full solve. ``only``: the load cases to solve and
-    check (all by default).
+    check (all by default). ``sections``: printed sections kept across variants
+    (``stiff.build.Sections``).
     """
-    built = build(case, geometry.poses[0])
+    built = build(case, geometry.poses[0], sections)
     checks = check_poses(case, built, geometry.poses, geometry.jacobians, geometry.landing,
                          screen=screen, only=only)
     t = case.targets

@@ -21,7 +21,6 @@ stiffness). Body nodes are fully held.
 
 from __future__ import annotations
 
-import functools
 import math
 from dataclasses import dataclass
 
@@ -60,13 +59,25 @@ class Built:
     warnings: tuple[str, ...]
 
 
-#: Printed sections kept between builds: a sweep's variants and a map's poses reuse the same few
-#: sections many times (one takes ~50 ms to compute). Keyed by material and section, which are
-#: frozen values.
-SECTION_CACHE = 512
+class Sections:
+    """Printed sections kept between builds, by material and section (frozen values).
+
+    A sweep's variants and a map's batches meet the same few sections many times (one takes
+    ~50 ms to compute); the caller makes one of these for that work and passes it to each
+    :func:`build`. Without one, a build computes each distinct section of its case once.
+    """
+
+    def __init__(self) -> None:
+        self._kept: dict[tuple[PrintedMaterial, Section], PrintedSection] = {}
+
+    def of(self, material: PrintedMaterial, s: Section) -> PrintedSection:
+        """The printed section of ``s`` in ``material`` (ModelError for an impossible one)."""
+        key = (material, s)
+        if key not in self._kept:
+            self._kept[key] = printed_section(material, s)
+        return self._kept[key]
 
 
-@functools.lru_cache(maxsize=SECTION_CACHE)
 def printed_section(material: PrintedMaterial, s: Section) -> PrintedSection:
     """The printed section of ``s`` in ``material`` (ModelError for an impossible one)."""
     if s.shape == "round":
@@ -74,10 +85,10 @@ def printed_section(material: PrintedMaterial, s: Section) -> PrintedSection:
     return printed_rectangle(material, s.width_mm, s.depth_mm, s.settings)
 
 
-def _section(case: Case, part: Part, s: Section) -> PrintedSection:
+def _section(case: Case, part: Part, s: Section, sections: Sections) -> PrintedSection:
     material = case.library.printed_material(s.material)
     try:
-        return printed_section(material, s)
+        return sections.of(material, s)
     except ModelError as err:
         raise CaseError(case.file, f"parts.{part.name}.section", str(err)) from None
 
@@ -85,8 +96,10 @@ def _section(case: Case, part: Part, s: Section) -> PrintedSection:
 Member = tuple[Part, tuple[str, str], BeamSection, "PrintedSection | None"]
 
 
-def part_sections(case: Case) -> list[Member]:
-    """Every member of every part with its beam section (and printed section, if printed)."""
+def part_sections(case: Case, sections: Sections | None = None) -> list[Member]:
+    """Every member of every part with its beam section (and printed section, if printed);
+    printed sections from ``sections`` when given."""
+    kept = Sections() if sections is None else sections
     out: list[Member] = []
     for part in case.parts:
         if part.kind == "tube":
@@ -99,7 +112,7 @@ def part_sections(case: Case) -> list[Member]:
             out.extend((part, seg, bs, None) for seg in part.segments)
         else:
             for seg, sec in zip(part.segments, part.sections, strict=True):
-                ps = _section(case, part, sec)
+                ps = _section(case, part, sec, kept)
                 out.append((part, seg, ps.beam, ps))
     return out
 
@@ -183,8 +196,9 @@ def _spring_tension(spring_kind: str, rate: float, free: float, t0: float, lengt
     return -rate * (free - length), None
 
 
-def build(case: Case, pose: Pose) -> Built:
-    """The frame model of the case in the pose."""
+def build(case: Case, pose: Pose, sections: Sections | None = None) -> Built:
+    """The frame model of the case in the pose (printed sections from ``sections`` when
+    given: see :class:`Sections`)."""
     index = part_index(case)
     names: list[str] = []
     xyz: list[list[float]] = []
@@ -202,7 +216,7 @@ def build(case: Case, pose: Pose) -> Built:
                 xyz.append([float(p[0]), float(p[1]), case.part(part).z_mm])
         return node_of[(part, n)]
 
-    members = part_sections(case)
+    members = part_sections(case, sections)
     conn = [[node(p.name, a), node(p.name, b)] for p, (a, b), _, _ in members]
     at_node = {(p.name, n): bs for p, seg, bs, _ in members for n in seg}
 

@@ -52,7 +52,7 @@ from stiff.batched import (
     not_met,
     worst_utilisation,
 )
-from stiff.build import Built
+from stiff.build import Built, Sections
 from stiff.case_model import Case
 from stiff.errors import StiffError
 from stiff.pool import WORKERS, map_items
@@ -142,7 +142,8 @@ def row_from_checked(index: int, values: tuple[Value, ...], checked: Checked,
 
 def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tuple[Value, ...],
              rate_mm3_per_s: float, geometry: Geometry | None = None,
-             only: Sequence[str] | None = None) -> VariantRow:
+             only: Sequence[str] | None = None, sections: Sections | None = None
+             ) -> VariantRow:
     """One variant checked through the batched path (``stiff.batched``), in the poses of
     ``geometry`` when its linkage is the base case's (else in its own pose); a StiffError
     becomes a row with its ``error``."""
@@ -150,7 +151,7 @@ def evaluate(case: Case, variables: tuple[Variable, ...], index: int, values: tu
         variant = apply_values(case, variables, values)
         same = geometry is not None and geometry_key(variant) == geometry_key(case)
         geo = geometry if same and geometry is not None else case_geometry(variant)
-        checked = check_variant(variant, geo, only=only)
+        checked = check_variant(variant, geo, only=only, sections=sections)
     except StiffError as err:
         return _failed_row(index, values, str(err).replace("\n", " "))
     return row_from_checked(index, values, checked, rate_mm3_per_s)
@@ -186,14 +187,17 @@ def run_sweep(case: Case, variables: tuple[Variable, ...],
         geometry: Geometry | None = case_geometry(case, poses)
     except StiffError:
         geometry = None  # each variant then says why in its row
-    job = partial(_evaluate_item, case, variables, rate_mm3_per_s, geometry, load_cases)
+    # each worker process keeps its own copy of the sections it meets
+    job = partial(_evaluate_item, case, variables, rate_mm3_per_s, geometry, load_cases,
+                  Sections())
     return tuple(map_items(job, combos, workers, progress))
 
 
 def _evaluate_item(case: Case, variables: tuple[Variable, ...], rate_mm3_per_s: float,
-                   geometry: Geometry | None, only: Sequence[str] | None,
+                   geometry: Geometry | None, only: Sequence[str] | None, sections: Sections,
                    item: tuple[int, tuple[Value, ...]]) -> VariantRow:
-    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s, geometry, only)
+    return evaluate(case, variables, item[0], item[1], rate_mm3_per_s, geometry, only,
+                    sections)
 
 
 def pareto_front(rows: Sequence[VariantRow]) -> tuple[int, ...]:

@@ -44,6 +44,7 @@ import numpy as np
 import numpy.typing as npt
 
 from stiff.batched import check_variant, grid_geometry
+from stiff.build import Sections
 from stiff.case_model import Case
 from stiff.check import run_check
 from stiff.errors import PoseError, StiffError
@@ -165,8 +166,8 @@ def evaluate_pose(case: Case, index: int, angles_rad: tuple[float, ...]) -> Pose
         result.pose.singularity)
 
 
-def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]]
-                   ) -> list[PoseRow]:
+def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]],
+                   sections: Sections | None = None) -> list[PoseRow]:
     """Grid poses checked together through the batched path (``stiff.batched``): the same
     rows as :func:`evaluate_pose` of each, in one pass. When the batch cannot be solved as a
     whole (a pose where the linkage is a mechanism), each pose is evaluated alone."""
@@ -177,7 +178,7 @@ def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]]
             checked = None
         else:
             at = pose_case(case, grid[geometry.reached[0]])
-            checked = check_variant(at, geometry, only=MAP_LOAD_CASES)
+            checked = check_variant(at, geometry, only=MAP_LOAD_CASES, sections=sections)
     except StiffError:
         return [evaluate_pose(case, k, angles) for k, angles in items]
     nan = math.nan
@@ -198,6 +199,11 @@ def evaluate_poses(case: Case, items: Sequence[tuple[int, tuple[float, ...]]]
                 "" if row is None else f"{row.item}: {row.mode} ({row.load_case})",
                 pc.poses[p].singularity)
     return [rows[i] for i in range(len(items))]
+
+
+def _evaluate_batch(case: Case, sections: Sections,
+                    items: Sequence[tuple[int, tuple[float, ...]]]) -> list[PoseRow]:
+    return evaluate_poses(case, items, sections)
 
 
 #: Grid poses checked together in one batch (and handed to a worker at a time).
@@ -227,7 +233,7 @@ def workspace_map(case: Case, steps: int = DEFAULT_STEPS,
         if progress is not None:
             progress(n * POSES_PER_BATCH)
 
-    parts = map_items(partial(evaluate_poses, case), batches, workers,
+    parts = map_items(partial(_evaluate_batch, case, Sections()), batches, workers,
                       None if progress is None else done)
     rows = [r for part in parts for r in part]
     return WorkspaceMap(mapped, held, (steps,) * len(mapped), tuple(rows))
