@@ -44,10 +44,7 @@ import time  # noqa: E402
 from pathlib import Path  # noqa: E402
 
 from stiff.batched import case_geometry, check_variant  # noqa: E402
-from stiff.build import (
-    Sections,
-    build,
-)
+from stiff.build import Sections, build  # noqa: E402
 from stiff.case import load_case  # noqa: E402
 from stiff.check import run_check  # noqa: E402
 from stiff.fe import compliance, node_dofs, stack  # noqa: E402
