@@ -20,7 +20,6 @@ Jacobian of the foot: from Φ(z, θ) = 0, dz/dθ = −Φ_z⁻¹ Φ_θ and d(foot
 
 from __future__ import annotations
 
-import functools
 import math
 from dataclasses import dataclass
 from typing import Literal
@@ -76,7 +75,7 @@ class Linkage:
         """Indices of the parts that move."""
         return tuple(i for i in range(len(self.part_names)) if i != self.body)
 
-    @functools.cached_property
+    @property
     def size_mm(self) -> float:
         """A characteristic length: the span of the nodes."""
         xy = np.asarray(self.node_xy_mm)

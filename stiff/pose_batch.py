@@ -15,7 +15,6 @@ play targets, see :func:`stiff.sweep`), and the check warnings.
 
 from __future__ import annotations
 
-import functools
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, replace
@@ -266,26 +265,9 @@ class PoseChecks:
     landings: PoseLandings | None
     load_case_names: tuple[str, ...]
     rows: tuple[CheckRows, ...]
-
-    @functools.cached_property
-    def factors(self) -> FloatArray:
-        """(rows, P) every row's safety factor in every pose (∞ where it does not apply)."""
-        if not self.rows:
-            return np.zeros((0, len(self.poses)))
-        return np.stack([r.safety_factors for r in self.rows])
-
-    @functools.cached_property
-    def required(self) -> FloatArray:
-        """(rows,) every row's required factor."""
-        return np.array([r.required_factor for r in self.rows], float)
-
-    @functools.cached_property
-    def utilisations(self) -> FloatArray:
-        """(rows, P) required over actual factor (0 where the factor is ∞)."""
-        sf = self.factors
-        out = np.zeros(sf.shape)
-        np.divide(self.required[:, None], sf, out=out, where=np.isfinite(sf))
-        return out
+    factors: FloatArray  # (rows, P) every row's safety factor in every pose (∞: none)
+    required: FloatArray  # (rows,) every row's required factor
+    utilisations: FloatArray  # (rows, P) required over actual factor (0 where ∞)
 
     def lowest(self, load_cases: Sequence[str] | None = None
                ) -> tuple[FloatArray, list[CheckRows | None]]:
@@ -348,6 +330,20 @@ def check_poses(case: Case, built: Built, poses: Sequence[Pose],
     rows = check_rows(CheckContext(case, built, ordered, names, memo), screen=screen)
     C = compliance(models.model, node_dofs(models.model, built.foot, "ux uy uz"), memo)
     C = 0.5 * (C + np.swapaxes(C, -1, -2))  # as stiff.stiffness.foot_stiffness
+    factors, required, utilisations = _factor_table(rows, len(poses))
     return PoseChecks(case=case, built=built, poses=tuple(poses), compliance_mm_per_N=C,
                       landings=landings,
-                      load_case_names=tuple(lc.name for lc in template), rows=rows)
+                      load_case_names=tuple(lc.name for lc in template), rows=rows,
+                      factors=factors, required=required, utilisations=utilisations)
+
+
+def _factor_table(rows: Sequence[CheckRows], P: int
+                  ) -> tuple[FloatArray, FloatArray, FloatArray]:
+    """(factors (rows, P), required (rows,), utilisations (rows, P)) of the rows."""
+    if not rows:
+        return np.zeros((0, P)), np.zeros(0), np.zeros((0, P))
+    sf = np.stack([r.safety_factors for r in rows])
+    required = np.array([r.required_factor for r in rows], float)
+    util = np.zeros(sf.shape)
+    np.divide(required[:, None], sf, out=util, where=np.isfinite(sf))
+    return sf, required, util

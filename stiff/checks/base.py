@@ -11,10 +11,9 @@ capacity / demand; it is
 
 from __future__ import annotations
 
-import functools
 import math
 from collections.abc import Callable, Iterable
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Literal
 
 import numpy as np
@@ -114,6 +113,9 @@ class CheckRows:
     basis: Text
     suggestion: Text = ""
     applies: BoolArray | None = None
+    #: (B,) capacity / demand, ∞ where there is no demand or the check does not apply (made
+    #: with the row, which is frozen)
+    safety_factors: FloatArray = field(init=False, repr=False, compare=False)
 
     @property
     def size(self) -> int:
@@ -127,18 +129,15 @@ class CheckRows:
             return np.ones(self.size, bool)
         return np.asarray(self.applies, bool)
 
-    @functools.cached_property
-    def safety_factors(self) -> FloatArray:
-        """(B,) capacity / demand, ∞ where there is no demand or the check does not apply
-        (computed once: the row is frozen)."""
+    def __post_init__(self) -> None:
         demand = np.asarray(self.demand, np.float64)
         live = demand > 0.0
         if self.applies is not None:
             live &= np.asarray(self.applies, bool)
-        out = np.full(demand.shape, np.inf)
-        np.divide(self.capacity, demand, out=out, where=live)
-        out.flags.writeable = False
-        return out
+        factors = np.full(demand.shape, np.inf)
+        np.divide(self.capacity, demand, out=factors, where=live)
+        factors.flags.writeable = False
+        object.__setattr__(self, "safety_factors", factors)
 
     @property
     def utilisations(self) -> FloatArray:
