@@ -344,6 +344,7 @@ def _factor_table(rows: Sequence[CheckRows], P: int
         return np.zeros((0, P)), np.zeros(0), np.zeros((0, P))
     sf = np.stack([r.safety_factors for r in rows])
     required = np.array([r.required_factor for r in rows], float)
-    util = np.zeros(sf.shape)
-    np.divide(required[:, None], sf, out=util, where=np.isfinite(sf))
+    util = np.where(np.isfinite(sf), np.inf, 0.0)  # a zero capacity: infinite utilisation
+    with np.errstate(over="ignore"):
+        np.divide(required[:, None], sf, out=util, where=np.isfinite(sf) & (sf > 0.0))
     return sf, required, util

@@ -67,7 +67,10 @@ def frame_cutoffs(ctx: CheckContext, rows: list[CheckRows]) -> list[FloatArray]:
             continue
         sf = np.stack([r.safety_factors for r in mine])
         need = np.array([r.required_factor for r in mine])[:, None]
-        util = np.divide(need, sf, out=np.zeros(sf.shape), where=np.isfinite(sf)).max(axis=0)
+        util = np.where(np.isfinite(sf), np.inf, 0.0)
+        with np.errstate(over="ignore"):
+            np.divide(need, sf, out=util, where=np.isfinite(sf) & (sf > 0.0))
+        util = util.max(axis=0)
         by_util = np.divide(required, util, out=np.full(util.shape, np.inf), where=util > 0)
         out.append(np.maximum(np.maximum(required, sf.min(axis=0)), by_util))
     return out

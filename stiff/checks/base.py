@@ -135,7 +135,8 @@ class CheckRows:
         if self.applies is not None:
             live &= np.asarray(self.applies, bool)
         factors = np.full(demand.shape, np.inf)
-        np.divide(self.capacity, demand, out=factors, where=live)
+        with np.errstate(over="ignore"):  # a vanishing demand: an infinite factor
+            np.divide(self.capacity, demand, out=factors, where=live)
         factors.flags.writeable = False
         object.__setattr__(self, "safety_factors", factors)
 
@@ -143,8 +144,11 @@ class CheckRows:
     def utilisations(self) -> FloatArray:
         """(B,) required factor over safety factor (0 where the factor is ∞)."""
         sf = self.safety_factors
-        out = np.zeros(sf.shape)
-        np.divide(self.required_factor, sf, out=out, where=np.isfinite(sf))
+        out = np.full(sf.shape, np.inf)  # a zero capacity: an infinite utilisation
+        live = np.isfinite(sf) & (sf > 0.0)
+        out[~np.isfinite(sf)] = 0.0
+        with np.errstate(over="ignore"):
+            np.divide(self.required_factor, sf, out=out, where=live)
         return out
 
     def record(self, i: int) -> CheckRecord:

@@ -102,5 +102,7 @@ def _bounds(model: FrameModel, fac: _Reduced, W: FloatArray, solution: Solution)
         Xs = _inverse_blocks(W, red.position, n_free, assemble.spring_dofs(model))
         per_unit = np.einsum("...nab,...nab->...n", Xs, S)
         total = total + np.einsum("...cn,...n->...c", np.maximum(-change, 0.0), per_unit)
-    out: FloatArray = np.divide(1.0, total, out=np.full(total.shape, np.inf), where=total > 0)
+    out: FloatArray = np.full(total.shape, np.inf)
+    with np.errstate(over="ignore"):  # a vanishing compression: no bound below ∞
+        np.divide(1.0, total, out=out, where=total > 0)
     return out
