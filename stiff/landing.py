@@ -390,6 +390,10 @@ def _bracketed_root(p: _Piece, target: FloatArray, hi: FloatArray) -> FloatArray
     return t
 
 
+#: Damping ratios below this are taken as zero (their effect is below round-off).
+NEGLIGIBLE_DAMPING = 1e-12
+
+
 def _march(mass_t: ArrayLike, drop_height_mm: ArrayLike, starts_mm: FloatArray,
            forces_N: FloatArray, slopes_N_per_mm: FloatArray,
            damping_ratio: ArrayLike) -> tuple[LandingBatch, _Entries]:
@@ -402,6 +406,9 @@ def _march(mass_t: ArrayLike, drop_height_mm: ArrayLike, starts_mm: FloatArray,
     h = np.broadcast_to(np.asarray(drop_height_mm, dtype=float), (n,))
     zeta = np.broadcast_to(np.asarray(damping_ratio, dtype=float), (n,))
     _check_inputs(m, h, zeta, starts, forces, slopes)
+    # a damping ratio below NEGLIGIBLE_DAMPING changes nothing measurable and would only
+    # overflow the damped closed forms (m v / c): taken as none
+    zeta = np.where(zeta < NEGLIGIBLE_DAMPING, 0.0, zeta)
     c = 2.0 * zeta * np.sqrt(slopes[:, 0] * m)
     t, x, v = np.zeros(n), np.zeros(n), np.sqrt(2.0 * G_MM_PER_S2 * h)
     entries = _Entries(np.full((n, n_stages), np.nan), np.full((n, n_stages), np.nan),
