@@ -18,27 +18,16 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from stiff import CASES_DIR
-from stiff.case import parse_case
-from stiff.check import run_check
 from stiff.checks import duty
 from stiff.checks.base import expand
 from stiff.checks.context import CheckContext, LoadSet, stack_loads
 from stiff.errors import CaseError
-
-
-def _context(text: str) -> CheckContext:
-    r = run_check(parse_case(text))
-    return CheckContext(r.case, r.built, r.load_cases)
+from tests.demo_contexts import context_of
 
 
 @pytest.fixture(scope="module", params=["camera_arm", "five_bar_leg", "hopping_leg"])
 def ctx(request: pytest.FixtureRequest) -> CheckContext:
-    return _context((CASES_DIR / f"{request.param}.toml").read_text())
-
-
-@pytest.fixture(scope="module")
-def hopping() -> CheckContext:
-    return _context((CASES_DIR / "hopping_leg.toml").read_text())
+    return context_of((CASES_DIR / f"{request.param}.toml").read_text())
 
 
 def _with(ctx: CheckContext, loads: LoadSet) -> CheckContext:

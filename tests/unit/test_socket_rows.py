@@ -17,22 +17,13 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from stiff import CASES_DIR
-from stiff.case import parse_case
-from stiff.check import run_check
 from stiff.checks import sockets
 from stiff.checks.base import CheckRows, expand
 from stiff.checks.context import CheckContext, LoadSet, stack_loads
+from tests.demo_contexts import FIVE_BAR, HOPPING, context_of
 
-HOPPING = (CASES_DIR / "hopping_leg.toml").read_text()
-FIVE_BAR = (CASES_DIR / "five_bar_leg.toml").read_text()
 BONDED_THIGH = ('socket = { tube = "thigh", engagement_mm = 20.0, fixing = "bonded", '
                 'adhesive = "epoxy" }')
-
-
-def _context(text: str) -> CheckContext:
-    r = run_check(parse_case(text))
-    return CheckContext(r.case, r.built, r.load_cases)
 
 
 def _clamped_hopping() -> str:
@@ -48,7 +39,7 @@ CASES = {"hopping": HOPPING, "five_bar": FIVE_BAR, "clamped": _clamped_hopping()
 
 @pytest.fixture(scope="module", params=sorted(CASES))
 def ctx(request: pytest.FixtureRequest) -> CheckContext:
-    return _context(CASES[request.param])
+    return context_of(CASES[request.param])
 
 
 def _with(ctx: CheckContext, loads: LoadSet) -> CheckContext:
@@ -93,11 +84,6 @@ def test_rows_of_one_pose_are_the_records(ctx: CheckContext) -> None:
     assert records == [r.record(0) for r in rows if r.mask[0]]
     assert all(r.demand > 0.0 and math.isfinite(r.demand) and r.capacity > 0.0 for r in records)
     assert {r.load_case for r in records} <= {s.name for s in ctx.loads}
-
-
-@pytest.fixture(scope="module")
-def hopping() -> CheckContext:
-    return _context(HOPPING)
 
 
 @settings(max_examples=25, deadline=None)

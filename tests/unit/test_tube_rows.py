@@ -19,31 +19,10 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from stiff import CASES_DIR
-from stiff.case import parse_case
-from stiff.check import run_check
 from stiff.checks import tubes
 from stiff.checks.base import CheckRows, expand
 from stiff.checks.context import CheckContext, LoadSet, stack_loads
 from stiff.fe import Solution
-
-FIVE_BAR = (CASES_DIR / "five_bar_leg.toml").read_text()
-HOPPING = (CASES_DIR / "hopping_leg.toml").read_text()
-
-
-def _context(text: str) -> CheckContext:
-    r = run_check(parse_case(text))
-    return CheckContext(r.case, r.built, r.load_cases)
-
-
-@pytest.fixture(scope="module")
-def five_bar() -> CheckContext:
-    return _context(FIVE_BAR)
-
-
-@pytest.fixture(scope="module")
-def hopping() -> CheckContext:
-    return _context(HOPPING)
 
 
 def _free_foot_sets(ctx: CheckContext) -> list[LoadSet]:

@@ -9,32 +9,12 @@ import math
 import numpy as np
 import pytest
 
-from stiff import CASES_DIR
-from stiff.case import parse_case
-from stiff.check import run_check
 from stiff.checks import sockets, tubes
 from stiff.checks.base import expand
 from stiff.checks.context import CheckContext
 from stiff.checks.sockets import DEFAULT_FRICTION
 from stiff.checks.spans import spans
-
-FIVE_BAR = (CASES_DIR / "five_bar_leg.toml").read_text()
-HOPPING = (CASES_DIR / "hopping_leg.toml").read_text()
-
-
-def _context(text: str) -> CheckContext:
-    r = run_check(parse_case(text))
-    return CheckContext(r.case, r.built, r.load_cases)
-
-
-@pytest.fixture(scope="module")
-def five_bar() -> CheckContext:
-    return _context(FIVE_BAR)
-
-
-@pytest.fixture(scope="module")
-def hopping() -> CheckContext:
-    return _context(HOPPING)
+from tests.demo_contexts import FIVE_BAR, HOPPING, context_of
 
 
 @pytest.mark.parametrize("name", ["five_bar", "hopping"])
@@ -96,7 +76,7 @@ def test_a_socket_shorter_than_the_tube_is_warned_and_still_checked() -> None:
         'socket = { tube = "link_a", engagement_mm = 4.0, fixing = "bonded", '
         'adhesive = "epoxy" }\n\n[joints.socket_a_bottom]', 1)
     assert text != FIVE_BAR
-    ctx = _context(text)
+    ctx = context_of(text)
     found = [w for w in sockets.warnings(ctx) if "less than the tube's diameter" in w]
     assert len(found) == 1 and "socket_a_top" in found[0]
     short = [r for r in expand(sockets.checks(ctx)) if r.item == "socket socket_a_top"]
@@ -110,7 +90,7 @@ def test_a_section_with_no_wall_round_the_tube_is_refused() -> None:
         '[parts.cap_a_top]\nkind = "printed"\nnodes = ["elbow_a", "socket_a_top"]\nz_mm = 15.0\n'
         'section = { material = "PETG", width_mm = 5.0,')
     assert text != FIVE_BAR
-    ctx = _context(text)
+    ctx = context_of(text)
     assert not [r for r in expand(sockets.checks(ctx)) if r.item == "socket socket_a_top"]
     assert any("leaves no wall" in w and "socket_a_top" in w for w in sockets.warnings(ctx))
 
@@ -124,7 +104,7 @@ def _clamped(extra: str) -> str:
 
 
 def test_a_clamp_without_its_force_is_warned_and_not_checked_for_slip() -> None:
-    ctx = _context(_clamped(""))
+    ctx = context_of(_clamped(""))
     assert any("without clamp_force_N" in w for w in sockets.warnings(ctx))
     assert any("a clamp on the pultruded tube thigh" in w for w in tubes.warnings(ctx))
     records = [r for r in expand(sockets.checks(ctx)) if r.item == "socket thigh_top"]
@@ -132,7 +112,7 @@ def test_a_clamp_without_its_force_is_warned_and_not_checked_for_slip() -> None:
 
 
 def test_a_clamp_with_its_force_is_checked_for_slip() -> None:
-    ctx = _context(_clamped(", clamp_force_N = 400.0"))
+    ctx = context_of(_clamped(", clamp_force_N = 400.0"))
     slip = [r for r in expand(sockets.checks(ctx)) if r.mode == "clamp slip (friction)"]
     assert slip
     assert all(r.capacity == pytest.approx(DEFAULT_FRICTION * 400.0) for r in slip)
