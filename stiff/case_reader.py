@@ -112,7 +112,8 @@ def _listing(names: tuple[str, ...]) -> str:
     return ", ".join(names) if len(names) <= 12 else ", ".join(names[:12]) + ", ..."
 
 
-def _type_name(value: object) -> str:
+def type_name(value: object) -> str:
+    """What a TOML value is, in the words of the error messages (``a number``, ``text``...)."""
     if isinstance(value, bool):
         return "true/false"
     if isinstance(value, int | float):
@@ -234,7 +235,7 @@ class Reader:
     def table(self, path: str, data: object, schema: Mapping[str, Field]) -> dict[str, Any]:
         """Check a table against its schema; return its values (numbers as float)."""
         if not isinstance(data, dict):
-            raise self.error(path, f"must be a table, got {_type_name(data)}")
+            raise self.error(path, f"must be a table, got {type_name(data)}")
         for key in data:
             if key not in schema:
                 raise self.error(f"{path}.{key}" if path else key, self._unknown(key, schema))
@@ -260,7 +261,7 @@ class Reader:
             return self._number(where, value, spec)
         if spec.kind == "str":
             if not isinstance(value, str) or not value.strip():
-                raise self.error(where, f"must be text, got {_type_name(value)}")
+                raise self.error(where, f"must be text, got {type_name(value)}")
             if spec.choices and value not in spec.choices:
                 close = difflib.get_close_matches(value, spec.choices, n=1)
                 hint = f"; did you mean '{close[0]}'?" if close else ""
@@ -269,7 +270,7 @@ class Reader:
             return value
         if spec.kind == "bool":
             if not isinstance(value, bool):
-                raise self.error(where, f"must be true or false, got {_type_name(value)}")
+                raise self.error(where, f"must be true or false, got {type_name(value)}")
             return value
         if spec.kind == "names":
             if (not isinstance(value, list) or not value
@@ -290,17 +291,17 @@ class Reader:
             return nums
         if spec.kind == "list":
             if not isinstance(value, list):
-                raise self.error(where, f"must be a list, got {_type_name(value)}")
+                raise self.error(where, f"must be a list, got {type_name(value)}")
             return value
         if spec.kind == "table":
             if not isinstance(value, dict):
-                raise self.error(where, f"must be a table, got {_type_name(value)}")
+                raise self.error(where, f"must be a table, got {type_name(value)}")
             return value
         raise self.error(where, f"internal: unknown field kind {spec.kind}")
 
     def _number(self, where: str, value: object, spec: Field) -> float | int:
         if isinstance(value, bool) or not isinstance(value, int | float):
-            raise self.error(where, f"must be a number, got {_type_name(value)}")
+            raise self.error(where, f"must be a number, got {type_name(value)}")
         if spec.kind == "int" and not isinstance(value, int):
             raise self.error(where, f"must be a whole number, got {value!r}")
         real = self._real(where, value)
@@ -336,10 +337,10 @@ class Reader:
     def named_tables(self, path: str, data: object) -> dict[str, Any]:
         """A table of named sub-tables (``[parts.thigh]``, ``[parts.shin]``...)."""
         if not isinstance(data, dict):
-            raise self.error(path, f"must be a table of named entries, got {_type_name(data)}")
+            raise self.error(path, f"must be a table of named entries, got {type_name(data)}")
         for name, entry in data.items():
             if not isinstance(entry, dict):
-                raise self.error(f"{path}.{name}", f"must be a table, got {_type_name(entry)}")
+                raise self.error(f"{path}.{name}", f"must be a table, got {type_name(entry)}")
         return data
 
     def known(self, where: str, name: str, known: Mapping[str, object] | tuple[str, ...],

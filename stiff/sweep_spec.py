@@ -45,7 +45,7 @@ from typing import Any, Literal, get_args
 
 from stiff.case import TOP, read_case
 from stiff.case_model import Case, Part
-from stiff.case_reader import Reader
+from stiff.case_reader import Reader, type_name
 from stiff.errors import StiffError
 from stiff.loads import load_case_names
 from stiff.printing import BUILD_DIRECTIONS, INFILL_PATTERNS
@@ -295,16 +295,6 @@ def _case_text(spec: str, case: Case) -> CaseSource:
         raise SweepSpecError(spec, f"cannot read {case.file}: {why}") from None
 
 
-def _what(value: object) -> str:
-    if isinstance(value, bool):
-        return "true/false"
-    if isinstance(value, str):
-        return "text"
-    if isinstance(value, dict):
-        return "a table"
-    return "a list" if isinstance(value, list) else type(value).__name__
-
-
 def _find_key(spec: str, data: dict[str, Any], key: tuple[str, ...]) -> None:
     """Refuse a key path that does not lead to a number: a missing or non-table step on the
     way, or a key holding text, a list, a table or true/false. A last key not written in the
@@ -318,12 +308,12 @@ def _find_key(spec: str, data: dict[str, Any], key: tuple[str, ...]) -> None:
             raise SweepSpecError(spec, f"unknown key {where!r}: the case file has no such "
                                  f"table{hint}")
         if not isinstance(table[word], dict):
-            raise SweepSpecError(spec, f"{where!r} is {_what(table[word])}, not a table")
+            raise SweepSpecError(spec, f"{where!r} is {type_name(table[word])}, not a table")
         table = table[word]
     if key[-1] in table:
         value = table[key[-1]]
         if isinstance(value, bool) or not isinstance(value, int | float):
-            raise SweepSpecError(spec, f"{'.'.join(key)!r} is {_what(value)}, not a number: "
+            raise SweepSpecError(spec, f"{'.'.join(key)!r} is {type_name(value)}, not a number: "
                                  "only numeric case values can be swept")
 
 

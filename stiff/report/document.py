@@ -25,9 +25,8 @@ from stiff.factors import FACTORS, RequiredFactors
 from stiff.material_tables import COLUMNS, MaterialKind
 from stiff.report import plots
 from stiff.report.sweep_plots import pareto_plot
-from stiff.report.sweep_text import SweepOutcome, row_text, settings_text
+from stiff.report.sweep_text import SweepOutcome, headline, row_text, settings_text
 from stiff.report.tables import write_csv
-from stiff.sweep import pareto_front
 from stiff.units import rad_to_deg
 
 FIGURES: tuple[tuple[str, str, Callable[[CheckResult, Axes | None], Axes]], ...] = (
@@ -164,14 +163,7 @@ def sweep_sections(sweep: SweepOutcome, csv_name: str) -> list[Section]:
     """The sweep's part of the report: counts, the recommended (or closest) variant with the
     targets it misses and its governing checks, the sensitivities, and the CSV's link."""
     rows, best = sweep.rows, sweep.best
-    met = sum(1 for r in rows if not r.error and r.all_met)
-    failed = [r for r in rows if r.error]
-    paragraphs = [f"{len(rows)} variants of {', '.join(v.name for v in sweep.variables)}; "
-                  f"{met} meet every check and target, {len(pareto_front(rows))} on the "
-                  "mass-compliance Pareto front."]
-    if failed:
-        paragraphs.append(f"{len(failed)} variants could not be checked, e.g. variant "
-                          f"{failed[0].index}: {failed[0].error}")
+    paragraphs = [line + "." for line in headline(sweep.variables, rows)]
     if best is None:
         paragraphs.append("No variant could be checked.")
     elif sweep.meets:

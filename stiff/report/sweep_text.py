@@ -49,6 +49,19 @@ def outcome_lines(o: SweepOutcome) -> list[str]:
                        o.sensitivities)
 
 
+def headline(variables: tuple[Variable, ...], rows: Sequence[VariantRow]) -> list[str]:
+    """How many variants, how many meet everything and are on the Pareto front, and the first
+    that could not be checked (if any): the sweep's opening lines."""
+    met = sum(1 for r in rows if not r.error and r.all_met)
+    failed = [r for r in rows if r.error]
+    out = [f"{len(rows)} variants of {', '.join(v.name for v in variables)}; {met} meet every "
+           f"check and target, {len(pareto_front(rows))} on the mass-compliance Pareto front"]
+    if failed:
+        out.append(f"{len(failed)} variants could not be checked, e.g. variant "
+                   f"{failed[0].index}: {failed[0].error}")
+    return out
+
+
 def settings_text(variables: tuple[Variable, ...], row: VariantRow) -> str:
     """A variant's settings as ``name=value, ...``."""
     return ", ".join(f"{v.name}={x:g}" if isinstance(x, float) else f"{v.name}={x}"
@@ -68,14 +81,8 @@ def sweep_lines(case: Case, variables: tuple[Variable, ...], rows: Sequence[Vari
                 check: CheckResult | None, sens: Sequence[Sensitivity]) -> list[str]:
     """The summary of a sweep: counts, the recommendation with its governing checks (from
     ``check``, the recommended variant's full `stiff check` result) and the sensitivities."""
-    failed = [r for r in rows if r.error]
-    met = [r for r in rows if not r.error and r.all_met]
-    out = [f"{case.title}: {len(rows)} variants of {', '.join(v.name for v in variables)}; "
-           f"{len(met)} meet every check and target, {len(pareto_front(rows))} on the "
-           "mass-compliance Pareto front"]
-    if failed:
-        out.append(f"{len(failed)} variants could not be checked, e.g. variant "
-                   f"{failed[0].index}: {failed[0].error}")
+    out = headline(variables, rows)
+    out[0] = f"{case.title}: {out[0]}"
     if recommended is None:
         out.append("no variant could be checked")
         return out
