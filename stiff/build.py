@@ -29,6 +29,7 @@ import numpy as np
 from stiff.case_model import BODY, Case, Joint, Part, Section
 from stiff.errors import CaseError, ModelError
 from stiff.fe import Beams, Connectors, FrameModel, Springs
+from stiff.fe.model import FloatArray
 from stiff.kinematics import Pose
 from stiff.linkage import part_index
 from stiff.materials import PrintedMaterial
@@ -57,6 +58,10 @@ class Built:
     spring_length_mm: tuple[float, ...]
     stiffness_basis: tuple[str, ...]  # how each connector's stiffness was obtained
     warnings: tuple[str, ...]
+
+    def driven(self) -> list[tuple[int, str]]:
+        """(connector index, actuator) of every connector whose twist an actuator holds."""
+        return [(i, a) for i, a in enumerate(self.connector_actuator) if a is not None]
 
 
 class Sections:
@@ -184,16 +189,30 @@ def joint_stiffness(case: Case, joint: Joint, a: str, b: str,
     return k, basis
 
 
-def _spring_tension(spring_kind: str, rate: float, free: float, t0: float, length: float
-                    ) -> tuple[float, str | None]:
-    """Tension [N] at a length [mm], and a warning when the spring goes slack."""
-    if spring_kind == "extension":
-        if length < free:
-            return 0.0, "is shorter than its free length: slack, it carries nothing here"
-        return t0 + rate * (length - free), None
-    if length > free:
-        return 0.0, "is longer than its free length: loose, it carries nothing here"
-    return -rate * (free - length), None
+def spring_tensions(case: Case, length_mm: FloatArray) -> FloatArray:
+    """(..., n_springs) each spring's tension [N] at its lengths [mm] (..., n_springs): an
+    extension spring shorter than its free length is slack, a compression spring longer than
+    its free length loose, and either carries nothing."""
+    length = np.asarray(length_mm, np.float64)
+    out = np.zeros_like(length)
+    for k, s in enumerate(case.springs):
+        L = length[..., k]
+        if s.kind == "extension":
+            out[..., k] = np.where(s.free_length_mm > L, 0.0, s.initial_tension_N
+                                   + s.rate_N_per_mm * (L - s.free_length_mm))
+        else:
+            out[..., k] = np.where(s.free_length_mm < L, 0.0,
+                                   -s.rate_N_per_mm * (s.free_length_mm - L))
+    return out
+
+
+def _spring_note(kind: str, free_mm: float, length_mm: float) -> str | None:
+    """Why a spring carries nothing at a length, or None when it does."""
+    if kind == "extension" and length_mm < free_mm:
+        return "is shorter than its free length: slack, it carries nothing here"
+    if kind != "extension" and length_mm > free_mm:
+        return "is longer than its free length: loose, it carries nothing here"
+    return None
 
 
 def build(case: Case, pose: Pose, sections: Sections | None = None) -> Built:
@@ -231,21 +250,20 @@ def build(case: Case, pose: Pose, sections: Sections | None = None) -> Built:
             c_names.append(f"{j.name} ({a}-{b})")
             basis.append(f"{j.name} ({a}-{b}): {why}")
 
-    s_nodes, s_rate, s_tension, s_len, warnings = [], [], [], [], list(pose.warnings)
+    s_nodes, s_rate, s_len, warnings = [], [], [], list(pose.warnings)
     for s in case.springs:
         ia, ib = node(*s.ends[0]), node(*s.ends[1])
         s_nodes.append([ia, ib])
         length = float(np.linalg.norm(np.subtract(xyz[ib], xyz[ia])))
-        tension, note = _spring_tension(s.kind, s.rate_N_per_mm, s.free_length_mm,
-                                        s.initial_tension_N, length)
+        note = _spring_note(s.kind, s.free_length_mm, length)
         if note:
             warnings.append(f"spring {s.name} {note}")
         if s.max_length_mm is not None and length > s.max_length_mm:
             warnings.append(f"spring {s.name} is stretched to {length:.1f} mm, beyond its "
                             f"maximum length {s.max_length_mm:g} mm")
         s_rate.append(s.rate_N_per_mm)
-        s_tension.append(tension)
         s_len.append(length)
+    s_tension = spring_tensions(case, np.array(s_len))
 
     for n in case.body_nodes:
         node(BODY, n)

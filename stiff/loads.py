@@ -22,7 +22,7 @@ Defaults and their provenance (used when the case does not say):
 from __future__ import annotations
 
 import math
-from collections.abc import Callable
+from collections.abc import Callable, Collection
 from dataclasses import dataclass, replace
 from typing import TypeVar
 
@@ -135,21 +135,17 @@ def weight_on_leg_N(case: Case) -> tuple[float, str]:
         f"robot weight {loads.robot_mass_t * 1e3:g} kg × g shared by {legs} legs in stance")
 
 
-def _driven(built: Built) -> list[tuple[int, str]]:
-    return [(i, a) for i, a in enumerate(built.connector_actuator) if a is not None]
-
-
 def _vertical_compliance(model: FrameModel, foot: int) -> float:
     return float(compliance(model, node_dofs(model, foot, "uy"))[0, 0])
 
 
-def _freed(built: Built, actuators: set[str]) -> FrameModel:
-    """The model with the twist stiffness of the given actuators removed (they yield)."""
-    model = built.model
-    k = model.connectors.stiffness.copy()
-    for i, a in _driven(built):
+def freed(built: Built, model: FrameModel, actuators: Collection[str]) -> FrameModel:
+    """``model`` (``built``'s, or a batch of it) with the twist stiffness of the given
+    actuators removed: they yield, or are the load."""
+    k = np.array(model.connectors.stiffness, copy=True)
+    for i, a in built.driven():
         if a in actuators:
-            k[i, 5] = 0.0
+            k[..., i, 5] = 0.0
     return replace(model, connectors=replace(model.connectors, stiffness=k))
 
 
@@ -158,7 +154,7 @@ def _torque_rates(model: FrameModel, built: Built, direction: float) -> dict[str
     loads = np.zeros((1, model.n_nodes, 6))
     loads[0, built.foot, 1] = direction
     sol = solve_static(model, loads)
-    return {a: float(sol.connector_forces[0, i, 5]) for i, a in _driven(built)}
+    return {a: float(sol.connector_forces[0, i, 5]) for i, a in built.driven()}
 
 
 def yielded_response(built: Built, direction: float, yielded: frozenset[str]) -> Response:
@@ -167,7 +163,7 @@ def yielded_response(built: Built, direction: float, yielded: frozenset[str]) ->
     if not yielded:
         return (_vertical_compliance(built.model, built.foot),
                 _torque_rates(built.model, built, direction))
-    model = _freed(built, set(yielded))
+    model = freed(built, built.model, yielded)
     try:
         return (_vertical_compliance(model, built.foot),
                 _torque_rates(model, built, direction))
@@ -367,7 +363,7 @@ def _stall_moments(built: Built, actuator: str, tau: float) -> tuple[NodeLoad, .
     The stalled actuator is a torque source: its holding stiffness is taken out of the model
     for this case (see ``solve_load_cases``), the foot held by the ground stops the motion.
     """
-    i = next(i for i, a in _driven(built) if a == actuator)
+    i = next(i for i, a in built.driven() if a == actuator)
     a, b = (int(n) for n in built.model.connectors.nodes[i])
     return (NodeLoad(b, (0.0, 0.0, 0.0), (0.0, 0.0, tau)),
             NodeLoad(a, (0.0, 0.0, 0.0), (0.0, 0.0, -tau)))
@@ -400,7 +396,7 @@ def solve_load_cases(case: Case, built: Built, cases: tuple[LoadCase, ...]
     for i, lc in enumerate(cases):
         groups.setdefault((lc.foot_held, lc.stalled[0] if lc.stalled else None), []).append(i)
     for (held, stalled), chosen in groups.items():
-        model = _freed(built, {stalled}) if stalled else built.model
+        model = freed(built, built.model, {stalled}) if stalled else built.model
         model = held_foot(model, built.foot) if held else model
         loads = np.stack([_load_array(model, built, cases[i]) for i in chosen])
         sol = solve_static(model, loads)
@@ -418,7 +414,7 @@ def _result(case: Case, built: Built, model: FrameModel, lc: LoadCase, sol: Solu
             ) -> LoadCaseResult:
     foot_force = math.sqrt(sum(f * f for f in lc.foot_force_N))
     demand = []
-    for i, a in _driven(built):
+    for i, a in built.driven():
         torque = float(sol.connector_forces[0, i, 5])
         if lc.stalled is not None and lc.stalled[0] == a:
             torque = lc.stalled[1]

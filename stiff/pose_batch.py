@@ -22,7 +22,7 @@ from dataclasses import dataclass, replace
 import numpy as np
 import numpy.typing as npt
 
-from stiff.build import Built
+from stiff.build import Built, spring_tensions
 from stiff.case_model import BODY, Case
 from stiff.checks import check_rows
 from stiff.checks.base import CheckRows
@@ -36,6 +36,7 @@ from stiff.linkage import part_index
 from stiff.loads import (
     LoadCase,
     curve_from_responses,
+    freed,
     held_foot,
     impact_forces,
     landing_damping,
@@ -71,20 +72,6 @@ def pose_xyz(case: Case, built: Built, poses: Sequence[Pose]) -> FloatArray:
     return np.concatenate([xy, np.broadcast_to(z[:, None], (*xy.shape[:-1], 1))], axis=-1)
 
 
-def spring_tension(case: Case, length_mm: FloatArray) -> FloatArray:
-    """(P, n_springs) each spring's tension [N] at its lengths [mm] (slack or loose: 0)."""
-    out = np.zeros_like(length_mm)
-    for k, s in enumerate(case.springs):
-        L = length_mm[:, k]
-        if s.kind == "extension":
-            out[:, k] = np.where(s.free_length_mm > L, 0.0,
-                                 s.initial_tension_N + s.rate_N_per_mm * (L - s.free_length_mm))
-        else:
-            out[:, k] = np.where(s.free_length_mm < L, 0.0,
-                                 -s.rate_N_per_mm * (s.free_length_mm - L))
-    return out
-
-
 @dataclass(frozen=True)
 class PoseModels:
     """The case's frame model stacked over poses, and each spring's length [mm] in each."""
@@ -102,23 +89,10 @@ def pose_models(case: Case, built: Built, poses: Sequence[Pose]) -> PoseModels:
         return PoseModels(replace(model, xyz=xyz), np.zeros((len(poses), 0)))
     a, b = springs.nodes[:, 0], springs.nodes[:, 1]
     length = np.linalg.norm(xyz[:, b] - xyz[:, a], axis=-1)
-    tension = spring_tension(case, length)
+    tension = spring_tensions(case, length)
     return PoseModels(replace(model, xyz=xyz, springs=replace(
         springs, tension=tension, rate=np.broadcast_to(springs.rate, tension.shape).copy())),
         length)
-
-
-def _driven(built: Built) -> list[tuple[int, str]]:
-    return [(i, a) for i, a in enumerate(built.connector_actuator) if a is not None]
-
-
-def freed(built: Built, model: FrameModel, actuators: frozenset[str]) -> FrameModel:
-    """``model`` with the twist stiffness of the given actuators removed (they yield)."""
-    k = np.array(model.connectors.stiffness, copy=True)
-    for i, a in _driven(built):
-        if a in actuators:
-            k[..., i, 5] = 0.0
-    return replace(model, connectors=replace(model.connectors, stiffness=k))
 
 
 def _unit_up(model: FrameModel, foot: int, direction: float) -> FloatArray:
@@ -134,7 +108,7 @@ def _responses_of(built: Built, model: FrameModel, direction: float,
     sol, sound = solve_static_sound(model, _unit_up(model, built.foot, direction), memo)
     uy = sol.displacements[:, 0, built.foot, 1] * direction  # compliance: u_y per newton up
     torques = sol.connector_forces[:, 0, :, 5]
-    driven = _driven(built)
+    driven = built.driven()
     return [(float(uy[p]), {a: float(torques[p, i]) for i, a in driven}) if sound[p] else None
             for p in range(uy.shape[0])]
 
@@ -218,7 +192,7 @@ def solve_sets(case: Case, built: Built, models: PoseModels,
                ) -> dict[str, LoadSet]:
     """Every load case solved in every pose, as load sets (by name)."""
     out: dict[str, LoadSet] = {}
-    driven = _driven(built)
+    driven = built.driven()
     base = models.model
     for g in _groups(cases):
         model = freed(built, base, frozenset({g.stalled})) if g.stalled else base

@@ -29,10 +29,6 @@ from stiff.fe.solve import Reductions, reduced_model
 Response = tuple[float, dict[str, float]] | None
 
 
-def _driven(built: Built) -> list[tuple[int, str]]:
-    return [(i, a) for i, a in enumerate(built.connector_actuator) if a is not None]
-
-
 #: A yielded leg whose matrix M = D⁻¹ − GᵀK⁻¹G of the low-rank update has an eigenvalue below
 #: this fraction of its terms' size is a mechanism: the yielded twists then carry a motion
 #: nothing else resists, and M is singular but for round-off. Measured on the demos' 5 x 5
@@ -83,7 +79,7 @@ def yield_responses(built: Built, model: FrameModel, direction: float,
                     memo: Reductions | None = None) -> YieldResponses | None:
     """:class:`YieldResponses` of a batched model, or None when an actuator's twist is rigid (a
     measured infinite stiffness: taking it out changes the constraints, not a rank)."""
-    driven = _driven(built)
+    driven = built.driven()
     k = np.broadcast_to(model.connectors.stiffness, (*model.batch_shape,
                                                      *model.connectors.stiffness.shape[-2:]))
     twist = k[..., [i for i, _ in driven], 5]  # (P, m)

@@ -7,7 +7,6 @@ from collections.abc import Callable, Sequence
 from dataclasses import replace
 
 import numpy as np
-import numpy.typing as npt
 
 from stiff.errors import ModelError
 from stiff.fe.model import Beams, FloatArray, FrameModel, Springs
@@ -24,20 +23,7 @@ def take(model: FrameModel, index: tuple[int, ...]) -> FrameModel:
     batch = model.batch_shape
     if len(index) != len(batch):
         raise ModelError(f"batch index {index} does not match batch shape {batch}")
-    b, c, s = model.beams, model.connectors, model.springs
-    def one(a: FloatArray, tail: int = 1) -> FloatArray:
-        return _pick(a, batch, tail, index)
-
-    beams = Beams(nodes=b.nodes, E=one(b.E), G=one(b.G), A=one(b.A), Iy=one(b.Iy),
-                  Iz=one(b.Iz), J=one(b.J), Asy=one(b.Asy), Asz=one(b.Asz),
-                  ref=one(b.ref, 2), releases=b.releases, names=b.names)
-    conns = replace(c, stiffness=_pick(c.stiffness, batch, 2, index),
-                    frame=_pick(c.frame, batch, 3, index))
-    springs = replace(s, rate=_pick(s.rate, batch, 1, index), tension=_pick(s.tension, batch, 1,
-                                                                             index))
-    return replace(model, xyz=_pick(model.xyz, batch, 2, index), beams=beams,
-                   connectors=conns, springs=springs,
-                   ground=_pick(model.ground, batch, 2, index))
+    return _rebuilt(model, lambda a, tail: _pick(a, batch, tail, index))
 
 
 def stack(models: Sequence[FrameModel]) -> FrameModel:
@@ -102,16 +88,3 @@ def _rebuilt(model: FrameModel, cut: Callable[[FloatArray, int], FloatArray]) ->
     springs = replace(s, rate=cut(s.rate, 1), tension=cut(s.tension, 1))
     return replace(model, xyz=cut(model.xyz, 2), beams=beams, connectors=conns,
                    springs=springs, ground=cut(model.ground, 2))
-
-
-def pick(model: FrameModel, index: npt.ArrayLike) -> FrameModel:
-    """The models at ``index`` (indices into a one-axis batch), as a batch (len(index),)."""
-    batch = model.batch_shape
-    if len(batch) != 1:
-        raise ModelError(f"pick needs a batch of one axis, got {batch}")
-    at = np.asarray(index, np.intp)
-
-    def cut(a: FloatArray, tail: int) -> FloatArray:
-        return np.broadcast_to(a, (*batch, *a.shape[a.ndim - tail:]))[at]
-
-    return _rebuilt(model, cut)
