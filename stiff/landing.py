@@ -27,25 +27,24 @@ overdamped (β = √−q, evaluated without overflow as decaying exponentials). 
 c = 0). A stage ends when ẋ = 0 (analytic) or when x reaches the next stage's start
 (analytic without damping; with damping a bracketed Newton iteration, x rising while ẋ > 0).
 The legs of a batch march through their stages together: arrays over the legs, a loop over
-the stages.
+the stages; the motion within one stage is in :mod:`stiff.landing_stage`.
 """
 
 from __future__ import annotations
 
 import math
 from collections.abc import Sequence
-from dataclasses import dataclass, fields
+from dataclasses import dataclass
 
 import numpy as np
 import numpy.typing as npt
 
+from stiff.landing_stage import Piece, first_zero, reach_point, state_at, stop_point
 from stiff.units import G_MM_PER_S2
 
 FloatArray = npt.NDArray[np.float64]
 ArrayLike = float | Sequence[float] | FloatArray
 
-_NEWTON_ITERATIONS = 100  # a cap only: Newton with bisection converges in far fewer
-_DOUBLINGS = 200  # cap on widening a search bracket (2^200 times its first guess)
 
 
 def impact_deflection(weight: float, height: float, k: float) -> tuple[float, float]:
@@ -168,228 +167,6 @@ class LandingBatch:
     stopped: npt.NDArray[np.bool_]  # True when the leg stops the fall
 
 
-@dataclass(frozen=True)
-class _Piece:
-    """One stage of n legs, as arrays (n,): coefficients and the state entering it."""
-
-    m: FloatArray  # mass [t]
-    c: FloatArray  # damping [N·s/mm]
-    s: FloatArray  # slope [N/mm]
-    f0: FloatArray  # force [N] at stroke x_ref
-    x_ref: FloatArray  # start of the stage [mm]
-    x0: FloatArray  # stroke entering it [mm]
-    v0: FloatArray  # speed entering it [mm/s]
-
-    def take(self, which: npt.NDArray[np.bool_] | npt.NDArray[np.intp]) -> _Piece:
-        """The legs ``which`` (a mask or indices)."""
-        return _Piece(*(getattr(self, f.name)[which] for f in fields(self)))
-
-    @property
-    def sigma(self) -> FloatArray:
-        """σ = c / 2m [1/s]."""
-        return self.c / (2.0 * self.m)
-
-    @property
-    def w0sq(self) -> FloatArray:
-        """ω₀² = s / m [1/s²]."""
-        return self.s / self.m
-
-    @property
-    def net(self) -> FloatArray:
-        """m g − F₀ [N]: the net force at the stage's start without damping."""
-        return self.m * G_MM_PER_S2 - self.f0
-
-    @property
-    def a0(self) -> FloatArray:
-        """Acceleration [mm/s²] entering the stage."""
-        return (self.net - self.s * (self.x0 - self.x_ref) - self.c * self.v0) / self.m
-
-    def force(self, x: FloatArray, v: FloatArray) -> FloatArray:
-        """Foot force F(x) + c ẋ [N] at stroke x [mm], speed v [mm/s]."""
-        return self.f0 + self.s * (x - self.x_ref) + self.c * v
-
-
-def _detuning(sigma: FloatArray, w0sq: FloatArray) -> FloatArray:
-    """q = ω₀² − σ² [1/s²], 0 within 1e-10 ω₀² of critical damping.
-
-    Treating such a stage as critically damped changes its motion over its own time scale
-    by about 1e-10 relative; it keeps ζ = 1 computed with rounding from a "stop" after an
-    astronomically long half period of ω = √q.
-    """
-    q = w0sq - sigma**2
-    return np.where(np.abs(q) <= 1e-10 * w0sq, 0.0, q)
-
-
-def _basis(sigma: FloatArray, w0sq: FloatArray, tau: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """(Φ, Ψ) of ÿ + 2σẏ + ω₀²y = 0 at times τ ≥ 0 (finite), for any damping."""
-    q = _detuning(sigma, w0sq)
-    phi, psi = np.empty_like(tau), np.empty_like(tau)
-    e = np.exp(-sigma * tau)
-    under, crit, over = q > 0, q == 0, q < 0
-    w = np.sqrt(q[under])
-    phi[under] = e[under] * np.cos(w * tau[under])
-    psi[under] = e[under] * np.sin(w * tau[under]) / w
-    phi[crit], psi[crit] = e[crit], tau[crit] * e[crit]
-    b, sg, t = np.sqrt(-q[over]), sigma[over], tau[over]
-    slow = np.exp(-w0sq[over] / (sg + b) * t)  # e^{(β−σ)τ}, β − σ without cancellation
-    phi[over] = 0.5 * (slow + np.exp(-(sg + b) * t))
-    psi[over] = slow * -np.expm1(-2.0 * b * t) / (2.0 * b)
-    return phi, psi
-
-
-def _first_zero(sigma: FloatArray, w0sq: FloatArray, z0: FloatArray,
-                dz0: FloatArray) -> FloatArray:
-    """First τ > 0 [s] where z = 0, for z̈ + 2σż + ω₀²z = 0, z(0) = z0, ż(0) = dz0; else ∞.
-
-    With z0 = 0 the zero at τ = 0 is skipped and the next one given.
-    """
-    flip = (z0 < 0) | ((z0 == 0) & (dz0 < 0))
-    z0, dz0 = np.where(flip, -z0, z0), np.where(flip, -dz0, dz0)
-    k = sigma * z0 + dz0  # z = Φ z0 + Ψ k
-    q = _detuning(sigma, w0sq)
-    out = np.full(z0.shape, np.inf)
-    under = q > 0
-    w = np.sqrt(q[under])
-    out[under] = np.arctan2(z0[under], -k[under] / w) / w
-    falling = k < 0
-    crit = (q == 0) & falling
-    out[crit] = z0[crit] / -k[crit]
-    over = (q < 0) & falling
-    arg = np.sqrt(-q[over]) * z0[over] / -k[over]
-    ok = arg < 1.0
-    zero = np.full(arg.shape, np.inf)
-    zero[ok] = np.arctanh(arg[ok]) / np.sqrt(-q[over][ok])
-    out[over] = zero
-    return out
-
-
-def _state(p: _Piece, tau: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """(stroke [mm], speed [mm/s]) of each leg a finite time τ [s] into its stage."""
-    x, v = np.empty_like(tau), np.empty_like(tau)
-    spring = p.s > 0
-    if spring.any():
-        q, t = p.take(spring), tau[spring]
-        x_eq = q.x_ref + q.net / q.s
-        y0, sg, w0sq = q.x0 - x_eq, q.sigma, q.w0sq
-        phi, psi = _basis(sg, w0sq, t)
-        x[spring] = x_eq + phi * y0 + psi * (sg * y0 + q.v0)
-        v[spring] = phi * q.v0 - psi * (w0sq * y0 + sg * q.v0)
-    damped = (p.s == 0) & (p.c > 0)
-    if damped.any():
-        q, t = p.take(damped), tau[damped]
-        rate, acc = q.c / q.m, q.net / q.m
-        fade = _fade(rate, t)  # ∫₀^τ e^{−γu} du and ∫₀^τ ∫₀^u e^{−γw} dw du
-        x[damped] = q.x0 + q.v0 * fade[0] + acc * fade[1]
-        v[damped] = q.v0 * np.exp(-rate * t) + acc * fade[0]
-    free = (p.s == 0) & (p.c == 0)
-    acc = p.net[free] / p.m[free]
-    x[free] = p.x0[free] + p.v0[free] * tau[free] + 0.5 * acc * tau[free] ** 2
-    v[free] = p.v0[free] + acc * tau[free]
-    return x, v
-
-
-def _fade(rate: FloatArray, tau: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """(E, P) = ((1 − e^{−γτ})/γ, (τ − E)/γ) for γ > 0, without cancellation for small γτ."""
-    z = rate * tau
-    e = -np.expm1(-z) / rate
-    small = z < 1e-3  # Taylor series to z³: truncation error below 1e-14 relative
-    zs = z[small]
-    p = np.empty_like(z)
-    p[small] = tau[small] ** 2 * (0.5 - zs / 6.0 + zs**2 / 24.0 - zs**3 / 120.0)
-    big = ~small
-    p[big] = (tau[big] - e[big]) / rate[big]
-    return e, p
-
-
-def _stop(p: _Piece) -> tuple[FloatArray, FloatArray]:
-    """(τ [s], stroke [mm]) where each leg would stop in this stage were it endless.
-
-    τ is infinite when the speed never reaches zero; the stroke is then the limit the leg
-    tends to (an equilibrium, or infinity when it never stops).
-    """
-    a0 = p.a0
-    moving = (p.v0 > 0) | (a0 > 0)
-    tau = np.where(moving, np.inf, 0.0)
-    spring = moving & (p.s > 0)
-    tau[spring] = _first_zero(p.sigma[spring], p.w0sq[spring], p.v0[spring], a0[spring])
-    damped = moving & (p.s == 0) & (p.c > 0) & (p.net < 0)
-    u = p.v0[damped] * p.c[damped] / -p.net[damped]  # ẋ(0) / −(terminal speed)
-    tau[damped] = np.where(u > 0, np.log1p(u) / np.where(u > 0, u, 1.0), 1.0) * (
-        p.v0[damped] * p.m[damped] / -p.net[damped])
-    free = moving & (p.s == 0) & (p.c == 0) & (p.net < 0)
-    tau[free] = p.v0[free] * p.m[free] / -p.net[free]
-    x = np.where(moving, np.inf, p.x0)
-    ends = moving & np.isfinite(tau)
-    x[ends] = _state(p.take(ends), tau[ends])[0]
-    settles = moving & ~ends & ((p.s > 0) | ((p.net == 0) & (p.c > 0)))
-    x_eq = p.x_ref + p.net / np.where(p.s > 0, p.s, 1.0)
-    flat = p.x0 + p.v0 * p.m / np.where(p.c > 0, p.c, 1.0)
-    x[settles] = np.where(p.s > 0, x_eq, flat)[settles]
-    return tau, x
-
-
-def _reach(p: _Piece, target: FloatArray, tau_stop: FloatArray) -> tuple[FloatArray, FloatArray]:
-    """(τ [s], speed [mm/s]) when each leg's stroke reaches ``target`` [mm] > x0 in this stage.
-
-    Every leg must reach it (before ``tau_stop``, which may be infinite).
-    """
-    tau, v = np.empty_like(target), np.empty_like(target)
-    spring = (p.c == 0) & (p.s > 0)  # energy conserved: a circle in (y, v/ω)
-    q, xt = p.take(spring), target[spring]
-    w = np.sqrt(q.w0sq)
-    x_eq = q.x_ref + q.net / q.s
-    y0, yt = q.x0 - x_eq, xt - x_eq
-    vt = np.sqrt(np.maximum(q.v0**2 + q.w0sq * (q.x0 - xt) * (y0 + yt), 0.0))
-    tau[spring] = np.maximum(np.arctan2(q.v0 / w, y0) - np.arctan2(vt / w, yt), 0.0) / w
-    v[spring] = vt
-    free = (p.c == 0) & (p.s == 0)  # uniform acceleration
-    q, d = p.take(free), target[free] - p.x0[free]
-    vt = np.sqrt(np.maximum(q.v0**2 + 2.0 * q.net / q.m * d, 0.0))
-    tau[free], v[free] = 2.0 * d / (q.v0 + vt), vt
-    damped = p.c > 0
-    if damped.any():
-        q = p.take(damped)
-        tau[damped] = _bracketed_root(q, target[damped], tau_stop[damped])
-        v[damped] = _state(q, tau[damped])[1]
-    return tau, np.maximum(v, 0.0)
-
-
-def _bracketed_root(p: _Piece, target: FloatArray, hi: FloatArray) -> FloatArray:
-    """τ [s] where x(τ) = target, x rising on [0, hi]: Newton steps kept inside the bracket,
-    bisection where a step would leave it. An infinite ``hi`` is first found by doubling."""
-    hi = hi.copy()
-    open_ = ~np.isfinite(hi)
-    guess = np.where(p.v0 > 0, (target - p.x0) / np.where(p.v0 > 0, p.v0, 1.0), p.m / p.c)
-    hi[open_] = guess[open_]
-    for _ in range(_DOUBLINGS):
-        open_ &= _state(p, hi)[0] < target
-        if not open_.any():
-            break
-        hi[open_] *= 2.0
-    lo = np.zeros_like(hi)
-    t = np.clip(guess, lo, hi)
-    scale = np.abs(target) + np.abs(p.x0) + np.abs(p.net) / np.where(p.s > 0, p.s, np.inf)
-    todo = np.arange(t.size)
-    for _ in range(_NEWTON_ITERATIONS):
-        q, tt, lo_, hi_ = p.take(todo), t[todo], lo[todo], hi[todo]
-        x, v = _state(q, tt)
-        r = x - target[todo]
-        below = r < 0
-        lo_, hi_ = np.where(below, tt, lo_), np.where(below, hi_, tt)
-        newton = tt - r / np.where(v > 0, v, 1.0)
-        inside = (v > 0) & (newton >= lo_) & (newton <= hi_)
-        # converged: the residual at rounding level (x carries errors of order ε times the
-        # distance to the stage's equilibrium), or the bracket negligible
-        done = (np.abs(r) <= 8e-16 * scale[todo]) | (hi_ - lo_ <= 1e-15 * hi_)
-        t_next = np.where(inside, newton, np.where(done, tt, 0.5 * (lo_ + hi_)))
-        done |= np.abs(t_next - tt) <= 1e-15 * hi_
-        t[todo], lo[todo], hi[todo] = t_next, lo_, hi_
-        todo = todo[~done]
-        if todo.size == 0:
-            break
-    return t
-
-
 #: Damping ratios below this are taken as zero (their effect is below round-off).
 NEGLIGIBLE_DAMPING = 1e-12
 
@@ -423,7 +200,7 @@ def _march(mass_t: ArrayLike, drop_height_mm: ArrayLike, starts_mm: FloatArray,
         entries.time_s[live, i], entries.stroke_mm[live, i] = t[live], x[live]
         entries.speed_mm_per_s[live, i] = v[live]
         last[live] = i
-        p = _Piece(m[live], c[live], slopes[live, i], forces[live, i], starts[live, i],
+        p = Piece(m[live], c[live], slopes[live, i], forces[live, i], starts[live, i],
                    x[live], v[live])
         nxt = starts[live, i + 1] if i + 1 < n_stages else np.full(live.size, np.inf)
         end = _stage_end(p, nxt)
@@ -453,21 +230,21 @@ class _End:
     settles: npt.NDArray[np.bool_]  # stays in the stage for ever without stopping
 
 
-def _stage_end(p: _Piece, nxt: FloatArray) -> _End:
+def _stage_end(p: Piece, nxt: FloatArray) -> _End:
     """How each leg leaves its stage, the next one starting at ``nxt`` [mm] (∞ for none)."""
-    tau_stop, x_stop = _stop(p)
+    tau_stop, x_stop = stop_point(p)
     endless = ~np.isfinite(tau_stop)
     reach = np.isfinite(nxt) & ((nxt <= p.x0) | np.where(endless, x_stop > nxt, x_stop >= nxt))
     go = reach & (nxt > p.x0)
     skip = reach & ~go
     tau, x, v = tau_stop.copy(), x_stop.copy(), np.zeros_like(x_stop)
     tau[skip], x[skip], v[skip] = 0.0, p.x0[skip], p.v0[skip]
-    tau[go], v[go] = _reach(p.take(go), nxt[go], tau_stop[go])
+    tau[go], v[go] = reach_point(p.take(go), nxt[go], tau_stop[go])
     x[go] = nxt[go]
     return _End(tau, x, v, reach, endless & ~reach)
 
 
-def _force_candidates(p: _Piece, end: _End) -> list[tuple[FloatArray, FloatArray]]:
+def _force_candidates(p: Piece, end: _End) -> list[tuple[FloatArray, FloatArray]]:
     """(force [N], τ [s]) where the stage's foot force can be greatest, in time order: at its
     entry, at the force's turning point inside it, at its end (for a leg that stays in it for
     ever, the force it tends to: the weight with a spring or damping, else F₀)."""
@@ -475,14 +252,14 @@ def _force_candidates(p: _Piece, end: _End) -> list[tuple[FloatArray, FloatArray
     inside = tau_turn < end.tau
     f_turn = np.full(p.x0.shape, -np.inf)
     q = p.take(inside)
-    f_turn[inside] = q.force(*_state(q, tau_turn[inside]))
+    f_turn[inside] = q.force(*state_at(q, tau_turn[inside]))
     settled = np.where((p.s > 0) | (p.c > 0), p.m * G_MM_PER_S2, p.f0)
     f_end = np.where(end.settles, settled,
                      p.force(np.where(end.settles, p.x0, end.x), end.v))
     return [(p.force(p.x0, p.v0), np.zeros_like(p.x0)), (f_turn, tau_turn), (f_end, end.tau)]
 
 
-def _turning_point(p: _Piece) -> FloatArray:
+def _turning_point(p: Piece) -> FloatArray:
     """First τ [s] > 0 where the foot force F(x) + c ẋ turns (s ẋ + c ẍ = 0), or infinity.
 
     The force rate is itself a free vibration of the stage, so its zero is analytic; it can
@@ -493,7 +270,7 @@ def _turning_point(p: _Piece) -> FloatArray:
     both = (p.s > 0) & (p.c > 0)
     out = np.full(p.x0.shape, np.inf)
     rate0 = p.s * p.v0 + p.c * a0
-    out[both] = _first_zero(p.sigma[both], p.w0sq[both], rate0[both],
+    out[both] = first_zero(p.sigma[both], p.w0sq[both], rate0[both],
                             (p.s * a0 + p.c * j0)[both])
     return out
 
@@ -517,10 +294,10 @@ class _Entries:
         entered = self.time_s[leg, :last + 1]
         k = np.maximum(np.searchsorted(entered, times, side="right") - 1, 0)
         n = times.size
-        p = _Piece(np.full(n, self.mass[leg]), np.full(n, self.damping[leg]),
+        p = Piece(np.full(n, self.mass[leg]), np.full(n, self.damping[leg]),
                    self.slopes[leg, k], self.forces[leg, k], self.starts[leg, k],
                    self.stroke_mm[leg, k], self.speed_mm_per_s[leg, k])
-        x, v = _state(p, times - entered[k])
+        x, v = state_at(p, times - entered[k])
         return x, v, p.force(x, v)
 
 
