@@ -132,6 +132,22 @@ def materials(name: str | None, user: tuple[Path, ...]) -> None:
     click.echo(text)
 
 
+#: A click command function, as option decorators take and give it back.
+F = typing.TypeVar("F", bound=typing.Callable[..., typing.Any])
+
+
+def _size(flag: str, default: float, text: str) -> typing.Callable[[F], F]:
+    """A positive size option of `stiff section` [mm]."""
+    return click.option(flag, type=click.FloatRange(min=0.0, min_open=True), default=default,
+                        show_default=True, help=text)
+
+
+def _count(flag: str, default: int, text: str) -> typing.Callable[[F], F]:
+    """A whole-number option of `stiff section` (walls, skins), 0 or more."""
+    return click.option(flag, type=click.IntRange(min=0), default=default, show_default=True,
+                        help=text)
+
+
 @cli.command()
 @click.argument("material")
 @click.option(
@@ -141,55 +157,13 @@ def materials(name: str | None, user: tuple[Path, ...]) -> None:
     show_default=True,
     help="Outline of the section.",
 )
-@click.option(
-    "--depth-mm",
-    type=click.FloatRange(min=0.0, min_open=True),
-    default=12.0,
-    show_default=True,
-    help="Rectangle: size in the linkage plane (along y) [mm].",
-)
-@click.option(
-    "--width-mm",
-    type=click.FloatRange(min=0.0, min_open=True),
-    default=6.0,
-    show_default=True,
-    help="Rectangle: size out of the plane, along the pins [mm].",
-)
-@click.option(
-    "--diameter-mm",
-    type=click.FloatRange(min=0.0, min_open=True),
-    default=10.0,
-    show_default=True,
-    help="Round: diameter [mm].",
-)
-@click.option(
-    "--walls",
-    type=click.IntRange(min=0),
-    default=3,
-    show_default=True,
-    help="Number of perimeter walls.",
-)
-@click.option(
-    "--line-width-mm",
-    type=click.FloatRange(min=0.0, min_open=True),
-    default=0.45,
-    show_default=True,
-    help="Width of one extruded line [mm].",
-)
-@click.option(
-    "--skins",
-    type=click.IntRange(min=0),
-    default=4,
-    show_default=True,
-    help="Number of solid top and bottom layers.",
-)
-@click.option(
-    "--layer-height-mm",
-    type=click.FloatRange(min=0.0, min_open=True),
-    default=0.2,
-    show_default=True,
-    help="Layer height [mm].",
-)
+@_size("--depth-mm", 12.0, "Rectangle: size in the linkage plane (along y) [mm].")
+@_size("--width-mm", 6.0, "Rectangle: size out of the plane, along the pins [mm].")
+@_size("--diameter-mm", 10.0, "Round: diameter [mm].")
+@_count("--walls", 3, "Number of perimeter walls.")
+@_size("--line-width-mm", 0.45, "Width of one extruded line [mm].")
+@_count("--skins", 4, "Number of solid top and bottom layers.")
+@_size("--layer-height-mm", 0.2, "Layer height [mm].")
 @click.option(
     "--infill-percent",
     type=click.FloatRange(min=0.0, max=100.0, min_open=True),
