@@ -90,9 +90,8 @@ def pose_models(case: Case, built: Built, poses: Sequence[Pose]) -> PoseModels:
     a, b = springs.nodes[:, 0], springs.nodes[:, 1]
     length = np.linalg.norm(xyz[:, b] - xyz[:, a], axis=-1)
     tension = spring_tensions(case, length)
-    return PoseModels(replace(model, xyz=xyz, springs=replace(
-        springs, tension=tension, rate=np.broadcast_to(springs.rate, tension.shape).copy())),
-        length)
+    return PoseModels(replace(model, xyz=xyz, springs=replace(springs, tension=tension)),
+                      length)
 
 
 def _unit_up(model: FrameModel, foot: int, direction: float) -> FloatArray:
@@ -126,8 +125,9 @@ def pose_landings(case: Case, built: Built, models: PoseModels, poses: Sequence[
                   jacobians: Sequence[FloatArray], memo: Reductions | None = None
                   ) -> PoseLandings | None:
     """The landing in each pose (as :func:`stiff.loads.landing` there), or None without a
-    drop. The leg's response with each set of actuators yielded is solved for all poses at
-    once, only for the sets some pose's curve reaches; the drops are simulated together
+    drop. The leg's response with each set of actuators yielded comes for all poses at once
+    from the intact leg's solution (``stiff.yielding``), only for the sets some pose's curve
+    reaches; the drops are simulated together
     (``stiff.landing.simulate_landings``, of which `stiff check`'s is the one-leg case)."""
     drop = landing_mass(case)
     height = case.loads.drop_height_mm
